@@ -36,6 +36,7 @@ import {
   sinhDependencies,
   coshDependencies,
   tanhDependencies,
+  sechDependencies,
   asinhDependencies,
   atanDependencies,
   erfDependencies,
@@ -55,7 +56,10 @@ import {
   eDependencies,
   evaluateDependencies,
 } from 'mathjs/number';
+import type { FactoryFunctionMap } from 'mathjs';
 
+// The mathjs typings declare every `*Dependencies` export as possibly undefined; they are all
+// present in mathjs/number, hence the cast.
 export const math = create(
   {
     parseDependencies,
@@ -84,6 +88,7 @@ export const math = create(
     sinhDependencies,
     coshDependencies,
     tanhDependencies,
+    sechDependencies,
     asinhDependencies,
     atanDependencies,
     erfDependencies,
@@ -104,6 +109,6 @@ export const math = create(
     // evaluate is only for tests that check our output is stock-mathjs evaluable; the core never
     // calls it on user text.
     evaluateDependencies,
-  },
+  } as unknown as FactoryFunctionMap,
   {},
 );

@@ -53,6 +53,8 @@ export interface Formula {
   notes: string[];
   /** Name of a recognised catalogue function when the whole formula is one (e.g. "sigmoid"). */
   recognised?: string;
+  /** Name on the formula's left-hand side, when written (`gelu_fast = …`, `def softplus(x)`). */
+  name?: string;
 }
 
 export interface Derivatives {

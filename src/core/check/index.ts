@@ -1,0 +1,679 @@
+/**
+ * Checking: pair each hand-written derivative with its forward and compare them numerically; compare
+ * comment formulas with the code under them; flag float breakdowns with a known stable rewrite and
+ * activation–loss pairings that starve the gradient.
+ *
+ * Phases: 1. detect (../detect) → 2. read every candidate with the engine → 3. pair (pairing.ts) →
+ * 4. compare (compare.ts) in the input or the saved-output form → 5. call sites of output-form
+ * derivatives → 6. comment vs code → 7. unstable forms and vanishing pairs (../analysis).
+ */
+import type { MathNode } from 'mathjs';
+import { LIMITS } from '../limits';
+import { FLOAT_TYPES, type Finding, type Formula, type Language, type ScalarFn, type Span } from '../types';
+import { parseFormula } from '../expr/parse';
+import { differentiate } from '../expr/differentiate';
+import { simplifyWithinBudget } from '../expr/simplify';
+import { compileScalar } from '../expr/compile';
+import { analyzePairing, stableRewrites } from '../analysis/index';
+import { emitCode, emitLanguageFor } from '../emit';
+import { analyzeSource, derivativeBase, hasSymbol, replaceSymbol, stripKernelSuffix, type CodeFormula, type SourceModel } from '../detect/index';
+import type { CommentFormula } from '../detect/comments';
+import type { Token } from '../detect/lexer';
+import { matchClose, splitArgs } from '../detect/stmt';
+import { compareFunctions, type Comparison } from './compare';
+import { MESSAGES } from './messages';
+import { TARGET_NAMES, OUTPUT_NAMES } from '../detect/words';
+
+/** Width (in x) of a float32 breakdown interval of kind zero/inaccurate that is worth a warning. */
+export const SEVERE_WIDTH = 1;
+/** Pre-activations that occur in practice (common practice): breakdowns of kind zero/inaccurate beyond ±30 are not reported. */
+export const PRACTICAL_RANGE = 30;
+/** Fraction of the peak magnitude below which a lost value is not worth a warning. */
+export const SIGNIFICANT = 1e-3;
+
+export interface CheckOptions {
+  languageId?: string;
+  fileName?: string;
+  limits?: Partial<typeof LIMITS>;
+  /** Rules to run (default all). */
+  rules?: readonly Finding['rule'][];
+}
+
+export interface CheckResult {
+  findings: Finding[];
+  /** What was not checked and why (unreadable formulas, unpaired derivatives, budgets). */
+  notes: string[];
+  /** Pairs compared: derivative name → forward name, with the verdict. */
+  pairs: { derivative: string; forward: string; how: string; argument: 'input' | 'output'; ok: boolean }[];
+}
+
+/** A formula read by the engine, with where it came from. */
+interface Read {
+  formula: Formula;
+  name: string;
+  span: Span;
+  line: number;
+  origin: 'code' | 'comment';
+  code?: CodeFormula;
+  comment?: CommentFormula;
+  role: 'activation' | 'loss' | 'derivative';
+  argument?: 'input' | 'output';
+  /** The argument form is known for certain (saved tensors, a saved attribute), not guessed from names. */
+  argumentCertain?: boolean;
+}
+
+export function checkText(text: string, opts: CheckOptions = {}): Finding[] {
+  return checkSource(text, opts).findings;
+}
+
+export function checkSource(text: string, opts: CheckOptions = {}): CheckResult {
+  const limits = { ...LIMITS, ...opts.limits };
+  const model = analyzeSource(text, opts);
+  const notes = [...model.skipped];
+  const started = Date.now();
+  const rules = new Set(opts.rules ?? ['derivative-mismatch', 'formula-mismatch', 'unstable-form', 'vanishing-pair']);
+  const language = model.info.language;
+
+  // 2. read every candidate
+  const reads: Read[] = [];
+  for (const c of model.codeFormulas) {
+    const params = { ...model.constants, ...c.params };
+    for (const u of c.upstream) params[u] = 1;
+    const f = tryParse(c.text, language, c.variable, params);
+    if (!f) continue;
+    const r: Read = { formula: f, name: c.qualifiedName, span: headerSpan(text, c.span), line: c.line, origin: 'code', code: c, role: c.role };
+    if (c.argument) r.argument = c.argument;
+    // Certain: a saved attribute or saved tensor, or an output-named argument of a backward pass that
+    // also takes the upstream gradient (backward passes name what they were handed).
+    if (c.argument && (/^(self|ctx|this)_/.test(c.variable ?? '') || c.fn.body.some((s) => s.k === 'multi') ||
+      (c.argument === 'output' && c.upstream.length > 0))) r.argumentCertain = true;
+    reads.push(r);
+  }
+  for (const c of model.commentFormulas) {
+    const lang: Language = c.text.includes('\\') ? 'latex' : 'plain';
+    const f = tryParse(c.text, lang, c.variable, {});
+    if (!f) continue;
+    const r: Read = { formula: f, name: c.name ?? '', span: c.span, line: c.line, origin: 'comment', comment: c, role: c.role };
+    if (c.argument) r.argument = c.argument;
+    reads.push(r);
+  }
+
+  const findings: Finding[] = [];
+  const pairs: CheckResult['pairs'] = [];
+  const forwards = reads.filter((r) => r.role !== 'derivative' && r.origin === 'code');
+  const findForward = (name: string): Read | undefined => {
+    const base = stripKernelSuffix(name);
+    return forwards.find((f) => f.code!.fn.name === name || f.name === name) ??
+      forwards.find((f) => stripKernelSuffix(f.code!.fn.name) === base || f.code!.fn.name.toLowerCase() === base.toLowerCase()) ??
+      forwards.find((f) => [`${base}_forward`, `${base}_fwd`, `${base}Forward`, `${base}_fn`].includes(stripKernelSuffix(f.code!.fn.name)));
+  };
+  const outOfTime = (): boolean => {
+    if (Date.now() - started > limits.fileBudgetMs) {
+      notes.push(`time budget of ${limits.fileBudgetMs} ms ran out: the rest of the file was not checked`);
+      return true;
+    }
+    return false;
+  };
+
+  // 3–4. derivatives in code
+  const vjp = customDerivativeRegistrations(model);
+  const checkedComments = new Set<Read>();
+  for (const d of reads.filter((r) => r.role === 'derivative' && r.origin === 'code')) {
+    if (outOfTime()) break;
+    const fn = d.code!.fn;
+    let fwd: Read | undefined;
+    let how = '';
+    if (fn.className) {
+      fwd = forwards.find((f) => f.code!.fn.className === fn.className && ['forward', '__call__', 'call', 'apply', 'fprop', 'f'].includes(f.code!.fn.name.toLowerCase()));
+      if (fwd) how = 'class';
+    }
+    if (!fwd && vjp.has(fn.name)) {
+      fwd = findForward(vjp.get(fn.name)!);
+      if (fwd) how = 'custom-derivative registration';
+    }
+    if (!fwd) {
+      const base = derivativeBase(fn.name);
+      if (base) fwd = findForward(base) ?? findForward(base.replace(/_$/, ''));
+      if (fwd) how = 'name';
+    }
+    if (!fwd) {
+      fwd = pairByCallSite(model, d, forwards);
+      if (fwd) how = 'call site';
+    }
+    if (!fwd) {
+      const base = derivativeBase(fn.name) ?? fn.name;
+      const cat = catalogueForward(base);
+      if (cat) { fwd = { formula: cat, name: base, span: d.span, line: d.line, role: 'activation', origin: 'comment' }; how = 'catalogue name'; }
+    }
+    if (!fwd) { notes.push(`${d.name}: no forward found to compare with`); continue; }
+    const verdict = compareDerivative(fwd.formula, d, d.code!.upstream, fwd);
+    if (!verdict) { notes.push(`${d.name}: could not be compared with ${fwd.name} (unbound parameters or no comparable points)`); continue; }
+    pairs.push({ derivative: d.name, forward: fwd.name, how, argument: verdict.argument, ok: verdict.cmp.ok });
+    if (!verdict.cmp.ok && rules.has('derivative-mismatch')) {
+      findings.push(mismatchFinding(d, fwd, verdict, text, language));
+    } else if (verdict.cmp.ok && verdict.argument === 'output' && rules.has('derivative-mismatch')) {
+      findings.push(...callSiteFindings(model, d, fwd, forwards));
+    }
+  }
+
+  // comment derivatives: d/dx f(x) = …, f'(x) = …, derivative: …
+  for (const d of reads.filter((r) => r.role === 'derivative' && r.origin === 'comment')) {
+    if (outOfTime()) break;
+    const c = d.comment!;
+    let fwd: Read | undefined;
+    let how = 'comment';
+    const below = functionBelow(model, c, reads);
+    if (below && below.role === 'derivative') {
+      // a comment over a derivative function: the comment must agree with the code
+      const verdict = compareSame(below, d);
+      checkedComments.add(d);
+      if (verdict && !verdict.ok && rules.has('formula-mismatch')) {
+        findings.push(formulaMismatch(d, below, verdict));
+        continue;
+      }
+      // and, if the code has a forward, with the forward too (reported once, on the code)
+      continue;
+    }
+    if (c.forwardName) fwd = findForward(c.forwardName);
+    if (!fwd && below && below.role !== 'derivative') fwd = below;
+    if (!fwd) {
+      // a forward formula in the same comment block
+      fwd = reads.find((r) => r.origin === 'comment' && r.role !== 'derivative' && r.comment!.group === c.group && r.comment!.args.length > 0);
+      how = 'same comment';
+    }
+    if (!fwd && c.forwardName) {
+      const cat = catalogueForward(c.forwardName);
+      if (cat) fwd = { formula: cat, name: c.forwardName, span: d.span, line: d.line, role: 'activation', origin: 'comment' };
+    }
+    if (!fwd) continue;
+    const verdict = compareDerivative(fwd.formula, d, []);
+    if (!verdict) continue;
+    pairs.push({ derivative: `comment line ${c.line + 1}`, forward: fwd.name, how, argument: verdict.argument, ok: verdict.cmp.ok });
+    if (!verdict.cmp.ok && rules.has('derivative-mismatch')) findings.push(mismatchFinding(d, fwd, verdict, text, language));
+  }
+
+  // 6. comment formulas vs the code under them
+  if (rules.has('formula-mismatch')) {
+    for (const c of reads.filter((r) => r.origin === 'comment' && r.role !== 'derivative')) {
+      const cf = c.comment!;
+      if (cf.args.length === 0 && OUTPUT_NAMES.has(cf.name ?? '')) continue; // `s = σ(x)`: a definition of a name, not the function
+      const below = functionBelow(model, cf, reads);
+      if (!below || below.role === 'derivative') continue;
+      const v = compareSame(below, c);
+      if (v && !v.ok) findings.push(formulaMismatch(c, below, v));
+    }
+  }
+
+  // 7. unstable forms and vanishing pairs, in code only
+  for (const r of reads.filter((x) => x.origin === 'code')) {
+    if (outOfTime()) break;
+    if (rules.has('unstable-form')) {
+      const f = unstable(r, text, language);
+      if (f) findings.push(f);
+    }
+    if (rules.has('vanishing-pair')) {
+      const f = vanishing(r);
+      if (f) findings.push(f);
+    }
+  }
+  findings.sort((a, b) => a.span.start - b.span.start || a.rule.localeCompare(b.rule));
+  return { findings: dedupe(findings), notes, pairs };
+}
+
+function dedupe(fs: Finding[]): Finding[] {
+  const seen = new Set<string>();
+  return fs.filter((f) => {
+    const k = `${f.rule}:${f.span.start}`;
+    if (seen.has(k)) return false;
+    seen.add(k);
+    return true;
+  });
+}
+
+function tryParse(text: string, language: Language, variable: string | undefined, params: Record<string, number>): Formula | undefined {
+  try {
+    return parseFormula(text, { language, ...(variable ? { variable } : {}), params });
+  } catch {
+    return undefined;
+  }
+}
+
+function catalogueForward(name: string): Formula | undefined {
+  const n = name.toLowerCase().replace(/^_+|_+$/g, '');
+  if (!/^[a-z][a-z0-9_]*$/.test(n)) return undefined;
+  try {
+    const f = parseFormula(`${n}(x)`, { variable: 'x' });
+    return f.recognised || f.node ? f : undefined;
+  } catch {
+    return undefined;
+  }
+}
+
+/** From the function's start to the end of its first line. */
+function headerSpan(text: string, span: Span): Span {
+  const nl = text.indexOf('\n', span.start);
+  return { start: span.start, end: nl < 0 || nl > span.end ? span.end : nl };
+}
+
+/** `f.defvjp(f_fwd, f_bwd)`, `@f.defjvp`, `f.defjvps(...)`: derivative function name → forward name. */
+function customDerivativeRegistrations(model: SourceModel): Map<string, string> {
+  const out = new Map<string, string>();
+  const toks = model.lexed.tokens.filter((t) => t.kind !== 'nl');
+  for (let i = 0; i + 3 < toks.length; i++) {
+    const t = toks[i]!;
+    if (t.kind !== 'id' || toks[i + 1]!.text !== '.') continue;
+    const m = toks[i + 2]!.text;
+    if (m !== 'defvjp' && m !== 'defjvp' && m !== 'defjvps' && m !== 'defvjps') continue;
+    if (toks[i + 3]!.text === '(') {
+      const close = matchClose(toks, i + 3);
+      const args = splitArgs(toks.slice(i + 4, close)).map((a) => a.filter((x) => x.kind === 'id').pop()?.text).filter((x): x is string => !!x);
+      const bwd = m === 'defvjp' ? args[1] : args[0];
+      if (bwd) out.set(bwd, t.text);
+      // the fwd of a VJP pair is the forward itself with residuals: pair it with the forward too
+    } else if (toks[i - 1]?.text === '@') {
+      // @f.defjvp on the next def
+      const def = toks.slice(i + 3, i + 8).findIndex((x) => x.text === 'def');
+      if (def >= 0) {
+        const name = toks[i + 3 + def + 1]?.text;
+        if (name) out.set(name, t.text);
+      }
+    }
+  }
+  return out;
+}
+
+/** Pair by call site: `g * f_prime(z)` in a function that also calls `f(z)`. */
+function pairByCallSite(model: SourceModel, d: Read, forwards: Read[]): Read | undefined {
+  const name = d.code!.fn.name;
+  for (const fn of model.code.functions) {
+    const toks = fn.bodyTokens.filter((t) => t.kind !== 'nl');
+    const calls = callsIn(toks);
+    const dcall = calls.find((c) => c.name === name);
+    if (!dcall) continue;
+    for (const c of calls) {
+      if (c.name === name) continue;
+      const f = forwards.find((x) => x.code!.fn.name === c.name);
+      if (!f) continue;
+      // the same argument, or the derivative is called with the forward's result
+      if (c.args[0] === dcall.args[0] || assignedFrom(toks, dcall.args[0] ?? '', c.name)) return f;
+    }
+  }
+  return undefined;
+}
+
+interface Call { name: string; args: string[]; start: number; end: number; line: number }
+
+function callsIn(toks: Token[]): Call[] {
+  const out: Call[] = [];
+  for (let i = 0; i + 1 < toks.length; i++) {
+    const t = toks[i]!;
+    if (t.kind !== 'id' || toks[i + 1]!.text !== '(') continue;
+    if (toks[i - 1]?.text === 'def' || toks[i - 1]?.text === 'function' || toks[i - 1]?.text === 'fn' || toks[i - 1]?.text === 'func') continue;
+    const close = matchClose(toks, i + 1);
+    if (close < 0) continue;
+    const args = splitArgs(toks.slice(i + 2, close)).map((a) => a.map((x) => x.text).join(''));
+    out.push({ name: t.text, args, start: t.start, end: toks[close]!.end, line: t.line });
+  }
+  return out;
+}
+
+/** Is `v` assigned from a call to `fname` in these tokens (`a = sigmoid(z)`)? */
+function assignedFrom(toks: Token[], v: string, fname: string): boolean {
+  if (!v) return false;
+  for (let i = 0; i + 2 < toks.length; i++) {
+    if (toks[i]!.text === v && ['=', ':=', '<-'].includes(toks[i + 1]!.text) && (i === 0 || toks[i - 1]!.text !== '.')) {
+      // scan the right-hand side on this line for the call
+      for (let k = i + 2; k < toks.length && toks[k]!.line === toks[i]!.line; k++) {
+        if (toks[k]!.text === fname && toks[k + 1]?.text === '(') return true;
+      }
+    }
+  }
+  return false;
+}
+
+interface Verdict {
+  cmp: Comparison;
+  argument: 'input' | 'output';
+  /** The form tried first was wrong but the other matched (a swapped argument). */
+  swapped?: boolean;
+  expected: MathNode;
+  /** The forward's variable (the one `expected` is in). */
+  variable: string;
+  params: Record<string, number>;
+}
+
+/** Values for parameters left unbound on both sides (targets of losses, symbolic slopes). */
+function sampleAssignments(names: string[]): Record<string, number>[] {
+  if (names.length === 0) return [{}];
+  const a: Record<string, number> = {};
+  const b: Record<string, number> = {};
+  for (const n of names) {
+    if (TARGET_NAMES.has(n)) { a[n] = 1; b[n] = 0.25; }
+    else if (/^(n|N|batch|m|count|size|len)$/.test(n)) { a[n] = 4; b[n] = 7; }
+    else { a[n] = 0.7; b[n] = 1.3; }
+  }
+  return [a, b];
+}
+
+/**
+ * Parameters that both sides take with a default (`beta = 1`) are free: the derivative must be right
+ * for every value, so they are also tried away from the default (v · 1.7 + 0.3).
+ */
+function defaultVariations(fwd: Read | undefined, d: Read): Record<string, number>[] {
+  const a = fwd?.code?.params ?? {};
+  const b = d.code?.params ?? {};
+  const alt: Record<string, number> = {};
+  for (const k of Object.keys(a)) if (k in b && a[k] === b[k]) alt[k] = a[k]! * 1.7 + 0.3;
+  return Object.keys(alt).length > 0 ? [{}, alt] : [{}];
+}
+
+function compareDerivative(fwd: Formula, d: Read, upstream: string[], fwdRead?: Read): Verdict | undefined {
+  let best: Verdict | undefined;
+  for (const variation of defaultVariations(fwdRead, d)) {
+    const v = compareDerivativeOnce(withParams(fwd, variation), { ...d, formula: withParams(d.formula, variation) }, upstream);
+    if (!v) return best;
+    if (!best || (best.cmp.ok && !v.cmp.ok)) best = v;
+    if (!v.cmp.ok) break;
+  }
+  return best;
+}
+
+function withParams(f: Formula, p: Record<string, number>): Formula {
+  const keys = Object.keys(p).filter((k) => k in f.parameters);
+  if (keys.length === 0) return f;
+  const parameters = { ...f.parameters };
+  for (const k of keys) parameters[k] = p[k]!;
+  return { ...f, parameters };
+}
+
+function compareDerivativeOnce(fwd: Formula, d: Read, upstream: string[]): Verdict | undefined {
+  const x = fwd.variable;
+  let dnode: MathNode;
+  try {
+    dnode = differentiate(fwd.node, x);
+  } catch {
+    return undefined;
+  }
+  const shared = [...new Set([...fwd.unbound, ...d.formula.unbound])];
+  if (fwd.unbound.some((u) => !d.formula.unbound.includes(u) && u !== d.formula.variable) ||
+    d.formula.unbound.some((u) => !fwd.unbound.includes(u) && !upstream.includes(u))) return undefined;
+  let best: Verdict | undefined;
+  for (const assign of sampleAssignments(shared)) {
+    const fp = { ...fwd.parameters, ...assign };
+    const dp = { ...d.formula.parameters, ...assign };
+    let F: ScalarFn, Fp: ScalarFn, D: ScalarFn;
+    try {
+      F = compileScalar(fwd.node, x, fp);
+      Fp = compileScalar(dnode, x, fp);
+      D = compileScalar(d.formula.node, d.formula.variable, dp);
+    } catch {
+      return undefined;
+    }
+    const inputForm = compareFunctions(Fp, D);
+    const outputForm = compareFunctions(Fp, (t) => D(F(t)));
+    const hinted = d.argument ?? 'input';
+    const first = hinted === 'output' ? outputForm : inputForm;
+    const second = hinted === 'output' ? inputForm : outputForm;
+    const other: 'input' | 'output' = hinted === 'output' ? 'input' : 'output';
+    let v: Verdict | undefined;
+    if (first && first.ok) v = { cmp: first, argument: hinted, expected: dnode, variable: x, params: fp };
+    else if (second && second.ok && !d.argumentCertain) v = { cmp: second, argument: other, expected: dnode, variable: x, params: fp };
+    else if (first) v = { cmp: first, argument: hinted, expected: dnode, variable: x, params: fp, ...(second && second.ok ? { swapped: true } : {}) };
+    else if (second) v = { cmp: second, argument: other, expected: dnode, variable: x, params: fp };
+    if (!v) continue;
+    // the upstream gradient must enter linearly: doubling it doubles the result
+    if (v.cmp.ok && upstream.length > 0) {
+      const dp2 = { ...dp };
+      for (const u of upstream) dp2[u] = 2;
+      try {
+        const D2 = compileScalar(d.formula.node, d.formula.variable, dp2);
+        const lin = compareFunctions((t) => 2 * (v!.argument === 'output' ? D(F(t)) : D(t)), (t) => (v!.argument === 'output' ? D2(F(t)) : D2(t)));
+        if (lin && !lin.ok) v = { ...v, cmp: { ...lin, ok: false } };
+      } catch { /* compiled once already */ }
+    }
+    if (!best || (best.cmp.ok && !v.cmp.ok)) best = v;
+    if (!v.cmp.ok) break;
+  }
+  return best;
+}
+
+/** Compare a comment formula with the code function under it (same role), variable by position. */
+function compareSame(code: Read, comment: Read): Comparison | undefined {
+  const shared = [...new Set([...code.formula.unbound, ...comment.formula.unbound])];
+  let worst: Comparison | undefined;
+  for (const assign of sampleAssignments(shared)) {
+    try {
+      const A = compileScalar(code.formula.node, code.formula.variable, { ...code.formula.parameters, ...assign });
+      const B = compileScalar(comment.formula.node, comment.formula.variable, { ...comment.formula.parameters, ...assign });
+      const c = compareFunctions(A, B);
+      if (c && (!worst || (!c.ok && worst.ok))) worst = c;
+    } catch {
+      return undefined;
+    }
+  }
+  return worst;
+}
+
+/** The code function a comment documents: the comment sits inside it (docstring) or ends ≤ 2 lines above it. */
+function functionBelow(model: SourceModel, c: CommentFormula, reads: Read[]): Read | undefined {
+  const g = model.comments.groups[c.group];
+  if (!g) return undefined;
+  let best: Read | undefined;
+  for (const r of reads) {
+    if (r.origin !== 'code') continue;
+    const fn = r.code!.fn;
+    const inside = fn.start <= c.span.start && c.span.end <= fn.end && g.firstLine <= fn.line + 3;
+    const above = fn.line > g.lastLine && fn.line - g.lastLine <= 2;
+    const trailing = fn.line === c.line && !c.docstring;
+    if (inside || above || trailing) {
+      if (!best || fn.line < best.code!.fn.line) best = r;
+    }
+  }
+  return best;
+}
+
+function fmt(v: number): string {
+  if (!Number.isFinite(v)) return String(v);
+  return Number(v.toPrecision(6)).toString();
+}
+
+function display(node: MathNode): string {
+  try {
+    return simplifyWithinBudget(node, { budgetMs: 150 }).node.toString();
+  } catch {
+    return node.toString();
+  }
+}
+
+function mismatchFinding(d: Read, fwd: Read, v: Verdict, text: string, language: Language): Finding {
+  const expected = display(v.expected);
+  const found = d.formula.expression;
+  const c = v.cmp;
+  let message: string;
+  if (v.swapped) {
+    message = v.argument === 'input'
+      ? MESSAGES.givenInputComputesOutput(d.name || 'this derivative', fwd.name)
+      : MESSAGES.givenOutputComputesInput(d.name || 'this derivative', fwd.name);
+  } else {
+    message = MESSAGES.derivativeMismatch(d.origin, d.name || 'this derivative', fwd.name, v.argument, fmt(c.x), fmt(c.expectedValue), fmt(c.foundValue));
+  }
+  const f: Finding = {
+    rule: 'derivative-mismatch', severity: 'error', span: d.span, message, expected, found,
+    evidence: { x: c.x, expectedValue: c.expectedValue, foundValue: c.foundValue, maxError: c.maxError, tolerance: c.tolerance, points: c.points },
+    related: { span: fwd.span, message: MESSAGES.forwardHere(fwd.name) },
+  };
+  const fix = derivativeFix(d, v, text, language);
+  if (fix) f.fix = fix;
+  return f;
+}
+
+/** Replacement text for a derivative whose body is one expression in the input form. */
+function derivativeFix(d: Read, v: Verdict, text: string, language: Language): Finding['fix'] | undefined {
+  if (d.origin !== 'code' || v.argument !== 'input' || v.swapped) return undefined;
+  const fn = d.code!.fn;
+  const el = emitLanguageFor(language, text);
+  if (!el) return undefined;
+  const ret = fn.exprBody ?? (fn.body.length === 1 && fn.body[0]!.k === 'return' ? fn.body[0]!.expr : undefined);
+  if (!ret || ret.length === 0) return undefined;
+  const toks = ret.filter((t) => t.kind !== 'nl' && t.text !== ';');
+  const span = { start: toks[0]!.start, end: toks[toks.length - 1]!.end };
+  const fwdVar = v.expected;
+  try {
+    // the expected derivative in the derivative's own variable name
+    let node = simplifyWithinBudget(fwdVar, { budgetMs: 150 }).node;
+    const dv = d.formula.variable;
+    if (dv !== v.variable) node = parseFormula(replaceSymbol(node.toString(), v.variable, dv), { variable: dv }).node;
+    let code = emitCode(node, el, { params: {} });
+    const ups = d.code!.upstream;
+    if (ups.length > 0 && hasSymbol(text.slice(span.start, span.end), ups[0]!)) code = `${ups[0]} * (${code})`;
+    return { title: MESSAGES.fixTitle(), span, text: code };
+  } catch {
+    return undefined;
+  }
+}
+
+function formulaMismatch(comment: Read, code: Read, c: Comparison): Finding {
+  return {
+    rule: 'formula-mismatch', severity: 'error', span: comment.span,
+    message: MESSAGES.formulaMismatch(code.name, fmt(c.x), fmt(c.expectedValue), fmt(c.foundValue)),
+    expected: code.formula.expression, found: comment.formula.expression,
+    evidence: { x: c.x, expectedValue: c.expectedValue, foundValue: c.foundValue, maxError: c.maxError, tolerance: c.tolerance, points: c.points },
+    related: { span: code.span, message: MESSAGES.codeHere(code.name) },
+  };
+}
+
+/**
+ * A correct output-form derivative called with the input (or an input-form one called with the
+ * output) is a bug at the call site.
+ */
+function callSiteFindings(model: SourceModel, d: Read, fwd: Read, forwards: Read[]): Finding[] {
+  const out: Finding[] = [];
+  const dname = d.code!.fn.name;
+  const fname = fwd.code?.fn.name ?? fwd.name;
+  for (const fn of model.code.functions) {
+    if (fn === d.code!.fn) continue;
+    const toks = fn.bodyTokens.filter((t) => t.kind !== 'nl');
+    for (const call of callsIn(toks)) {
+      if (call.name !== dname) continue;
+      const arg = call.args[0] ?? '';
+      if (arg === '') continue;
+      const isOutput = arg.startsWith(`${fname}(`) || assignedFrom(toks, arg, fname) || forwards.some((f) => arg.startsWith(`${f.code?.fn.name}(`) && f === fwd);
+      if (isOutput) continue;
+      // the argument is something the forward is applied to elsewhere in this function, or a parameter
+      const appliedTo = callsIn(toks).some((c) => c.name === fname && c.args[0] === arg);
+      const isParam = fn.params.some((p) => p.name === arg);
+      if (!appliedTo && !isParam) continue;
+      out.push({
+        rule: 'derivative-mismatch', severity: 'error', span: { start: call.start, end: call.end },
+        message: MESSAGES.callSiteInput(dname, arg, fname),
+        expected: `${dname}(${fname}(${arg}))`, found: `${dname}(${arg})`,
+        related: { span: d.span, message: MESSAGES.derivativeHere(dname) },
+      });
+    }
+  }
+  return out;
+}
+
+function unstable(r: Read, text: string, language: Language): Finding | undefined {
+  if (r.formula.unbound.length > 0) return undefined;
+  let suggestions;
+  try {
+    suggestions = stableRewrites(r.formula.node, null, r.formula.variable, r.formula.parameters, FLOAT_TYPES, [-100, 100]);
+  } catch {
+    return undefined;
+  }
+  // Only breakdowns that hurt training: ±∞ or NaN in some type, or a wrong value (0 or > 1e-2 relative
+  // error) over an interval at least SEVERE_WIDTH long in float32. Tiny subnormal tails are not reported.
+  // A lost value matters only where the value itself matters: at least SIGNIFICANT × the function's
+  // peak magnitude on [−6, 6] (a gradient of 1e-7 computed to 2 digits does not change training).
+  const exact = compileScalar(r.formula.node, r.formula.variable, r.formula.parameters);
+  let peak = 0;
+  for (let x = -6; x <= 6; x += 0.05) { const v = Math.abs(exact(x)); if (Number.isFinite(v)) peak = Math.max(peak, v); }
+  const severe = (b: { from: number | null; to: number | null; kind: string }, t: string): boolean => {
+    if (b.kind === 'overflow' || b.kind === 'nan') return true;
+    if (t !== 'float32') return false;
+    const from = Math.max(b.from ?? -PRACTICAL_RANGE, -PRACTICAL_RANGE);
+    const to = Math.min(b.to ?? PRACTICAL_RANGE, PRACTICAL_RANGE);
+    if (to - from < SEVERE_WIDTH) return false;
+    const mid = Math.abs(exact((from + to) / 2));
+    return Number.isFinite(mid) && mid >= SIGNIFICANT * peak;
+  };
+  const s = suggestions.find((x) => FLOAT_TYPES.some((t) => (x.before[t] ?? []).some((b) => severe(b, t))));
+  if (!s) return undefined;
+  const types = FLOAT_TYPES.filter((t) => (s.before[t] ?? []).some((b) => severe(b, t)));
+  const first = types.map((t) => ({ t, b: s.before[t]!.find((b) => severe(b, t))! }))[0];
+  const where = first ? MESSAGES.breakdownAt(first.t, first.b.kind, first.b.from, first.b.to) : '';
+  const f: Finding = {
+    rule: 'unstable-form', severity: 'warning', span: r.span,
+    message: MESSAGES.unstable(r.name, s.title, where, types.join(', ')),
+    expected: s.expression, found: r.formula.expression,
+  };
+  const el = emitLanguageFor(language, text);
+  const fn = r.code?.fn;
+  const ret = fn ? (fn.exprBody ?? (fn.body.length === 1 && fn.body[0]!.k === 'return' ? fn.body[0]!.expr : undefined)) : undefined;
+  if (el && ret && ret.length > 0) {
+    try {
+      const node = parseFormula(s.expression, { variable: r.formula.variable }).node;
+      const toks = ret.filter((t) => t.kind !== 'nl' && t.text !== ';');
+      f.fix = { title: MESSAGES.stableFixTitle(s.title), span: { start: toks[0]!.start, end: toks[toks.length - 1]!.end }, text: emitCode(node, el, { params: {} }) };
+    } catch { /* no fix */ }
+  }
+  return f;
+}
+
+/** Squared (or absolute) error applied to a saturating activation: `(σ(z) − y)²`. */
+function vanishing(r: Read): Finding | undefined {
+  const node = r.formula.node;
+  const v = r.formula.variable;
+  let hit: { act: MathNode; loss: string } | undefined;
+  node.traverse((n) => {
+    if (hit) return;
+    const on = n as unknown as { type: string; fn?: string; args?: MathNode[] };
+    if (on.type !== 'OperatorNode' && on.type !== 'FunctionNode') return;
+    let base: MathNode | undefined;
+    let loss = '';
+    if (on.type === 'OperatorNode' && on.fn === 'pow' && on.args?.[1]?.toString() === '2') { base = on.args[0]; loss = 'squared-error'; }
+    if (on.type === 'FunctionNode' && (n as unknown as { fn: { name: string } }).fn.name === 'abs') { base = on.args?.[0]; loss = 'absolute-error'; }
+    if (!base) return;
+    while (base.type === 'ParenthesisNode') base = (base as unknown as { content: MathNode }).content;
+    const b = base as unknown as { type: string; fn?: string; args?: MathNode[] };
+    if (b.type !== 'OperatorNode' || b.fn !== 'subtract' || !b.args) return;
+    const [p, y] = b.args as [MathNode, MathNode];
+    const dependsP = symbolsOf(p).has(v);
+    const dependsY = symbolsOf(y).has(v);
+    if (dependsP && !dependsY && isSaturating(p)) hit = { act: p, loss };
+    else if (dependsY && !dependsP && isSaturating(y)) hit = { act: y, loss };
+  });
+  if (!hit) return undefined;
+  try {
+    const act = parseFormula(hit.act.toString(), { variable: v, params: r.formula.parameters });
+    const pa = analyzePairing(act, hit.loss);
+    if (!pa.starves) return undefined;
+    return {
+      rule: 'vanishing-pair', severity: 'warning', span: r.span,
+      message: MESSAGES.vanishing(r.name, act.recognised ?? act.expression, hit.loss, pa.message),
+      found: r.formula.expression,
+    };
+  } catch {
+    return undefined;
+  }
+}
+
+function symbolsOf(n: MathNode): Set<string> {
+  const s = new Set<string>();
+  n.traverse((c) => { if (c.type === 'SymbolNode') s.add((c as unknown as { name: string }).name); });
+  return s;
+}
+
+/** An exp-based sigmoid or a tanh somewhere in the sub-expression. */
+function isSaturating(n: MathNode): boolean {
+  let yes = false;
+  n.traverse((c) => {
+    if (c.type === 'FunctionNode') {
+      const name = (c as unknown as { fn: { name: string } }).fn.name;
+      if (name === 'tanh' || name === 'erf') yes = true;
+      if (name === 'exp') yes = true;
+    }
+  });
+  return yes;
+}

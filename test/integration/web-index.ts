@@ -1,0 +1,19 @@
+// In-host test runner for the browser (web worker) extension host: the module named by
+// `extensionTestsPath` in Route B (scripts/web-test.mjs, `npm run test:web`). scripts/build.mjs bundles it
+// with every test/integration/**/*.test.ts except `*.node.test.ts` into out/test/web/suite.js.
+import './web-setup';
+import { files } from 'virtual:integration-tests';
+
+export function run(): Promise<void> {
+  if (files.length === 0) return Promise.reject(new Error('no in-host test files were bundled into the web suite'));
+  return new Promise<void>((resolve, reject) => {
+    try {
+      mocha.run((failures) => {
+        if (failures > 0) reject(new Error(`${failures} in-host test(s) failed`));
+        else resolve();
+      });
+    } catch (err) {
+      reject(err instanceof Error ? err : new Error(String(err)));
+    }
+  });
+}
