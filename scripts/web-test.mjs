@@ -10,7 +10,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { parseArgs } from 'node:util';
-import { ROOT, ensureDebianPackages, freePort, makeProfile, log } from './lib/code-server.mjs';
+import { ROOT, ensureDebianPackages, freePort, makeProfile } from './lib/code-server.mjs';
 import { ensureWebRunner, WEB_COMMIT, WEB_DATA_DIR } from './lib/code-web.mjs';
 import { launchChromium, runSuiteInPage } from './lib/browser.mjs';
 
@@ -19,7 +19,7 @@ const { values: opts } = parseArgs({
     workspace: { type: 'string', default: path.join(ROOT, 'demo') },
     extension: { type: 'string', default: ROOT },
     tests: { type: 'string' },
-    timeout: { type: 'string', default: '300' },
+    timeout: { type: 'string', default: '600' },
     verbose: { type: 'boolean', default: false },
     headed: { type: 'boolean', default: false },
   },
@@ -82,12 +82,13 @@ async function main() {
     extensionDevelopmentPath: extensionPath,
     extensionTestsPath: testsPath,
     folderPath: workspace,
-    host: '127.0.0.1',
+    // 'localhost', not 127.0.0.1: webviews load from {{uuid}}.<host>, and only *.localhost resolves.
+    host: 'localhost',
     port,
     printServerLog: opts.verbose,
   });
-  const url = `http://127.0.0.1:${port}/`;
-  log(`web editor ${url} (workspace ${path.relative(ROOT, workspace) || workspace})`);
+  const url = `http://localhost:${port}/`;
+  console.log(`[web] web editor ${url} (workspace ${path.relative(ROOT, workspace) || workspace})`);
   launching = launchChromium(profile, { headless: !opts.headed });
   context = await launching;
   if (finished) return undefined;

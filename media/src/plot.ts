@@ -47,6 +47,14 @@ function css(name: string, fallback: string): string {
   return v || fallback;
 }
 
+/** The formulas' colours, in order: the chart's category range and the chips' dots. */
+function paletteColours(): string[] {
+  return [
+    css('--vscode-charts-blue', '#3d8fd9'), css('--vscode-charts-orange', '#e0842a'), css('--vscode-charts-green', '#3aa55d'),
+    css('--vscode-charts-purple', '#9d6bd6'), css('--vscode-charts-red', '#d0463c'), css('--vscode-charts-yellow', '#c99a06'),
+  ];
+}
+
 /** Theme colours read at render time from VS Code's CSS variables. */
 function theme(): { config: vega.Config; signals: Record<string, string> } {
   const fg = css('--vscode-editor-foreground', '#333');
@@ -54,10 +62,7 @@ function theme(): { config: vega.Config; signals: Record<string, string> } {
   const grid = css('--vscode-editorIndentGuide-background1', css('--vscode-editorIndentGuide-background', '#8884'));
   const font = css('--vscode-font-family', 'sans-serif');
   const hc = document.body.classList.contains('vscode-high-contrast') || document.body.classList.contains('vscode-high-contrast-light');
-  const palette = [
-    css('--vscode-charts-blue', '#3d8fd9'), css('--vscode-charts-orange', '#e0842a'), css('--vscode-charts-green', '#3aa55d'),
-    css('--vscode-charts-purple', '#9d6bd6'), css('--vscode-charts-red', '#d0463c'), css('--vscode-charts-yellow', '#c99a06'),
-  ];
+  const palette = paletteColours();
   const axis = { labelColor: fg, titleColor: fg, domainColor: muted, tickColor: muted, gridColor: grid,
     labelFont: font, titleFont: font, labelFontSize: 11, titleFontSize: 12, grid: true, gridOpacity: hc ? 0.6 : 0.5 };
   return {
@@ -94,6 +99,8 @@ async function ensureView(variable: string): Promise<vega.View> {
   if (view && embeddedFor === key) return view;
   view?.finalize();
   const spec = structuredClone(compiledSpec) as vega.Spec & { axes?: { scale: string; title?: unknown }[] };
+  // vega-lite writes its default white background into the compiled spec; the panel's own shows through.
+  spec.background = 'transparent';
   // Axis titles are explicit; x is the formula's variable (vega-lite would have titled it "from, x").
   for (const a of spec.axes ?? []) if (a.scale === 'x' && a.title !== undefined) a.title = variable;
   const t = theme();
@@ -179,17 +186,31 @@ function buildControls(s: PlotState): void {
     }
   }
   paramsBox.hidden = s.params.length === 0;
+  renderChips(s);
+}
+
+/** The formula legend: one chip per formula with its colour; a remove button once there are two. */
+function renderChips(s: PlotState): void {
+  const palette = paletteColours();
   formulasBox.replaceChildren();
-  formulasBox.hidden = s.formulas.length < 2;
+  formulasBox.hidden = s.formulas.length === 0;
   s.formulas.forEach((f, i) => {
     const chip = document.createElement('span');
     chip.className = 'chip';
-    chip.textContent = f;
-    const x = document.createElement('button');
-    x.textContent = '×';
-    x.title = `Remove ${f} from the chart`;
-    x.addEventListener('click', () => post({ type: 'remove', index: i }));
-    chip.append(x);
+    const dot = document.createElement('span');
+    dot.className = 'dot';
+    dot.style.background = palette[i % palette.length] ?? 'currentColor';
+    const label = document.createElement('span');
+    label.textContent = f;
+    chip.append(dot, label);
+    if (s.formulas.length > 1) {
+      const x = document.createElement('button');
+      x.textContent = '×';
+      x.title = `Remove ${f} from the chart`;
+      x.setAttribute('aria-label', `Remove ${f}`);
+      x.addEventListener('click', () => post({ type: 'remove', index: i }));
+      chip.append(x);
+    }
     formulasBox.append(chip);
   });
 }
@@ -274,8 +295,17 @@ $('export-png').addEventListener('click', () => {
   void view.toImageURL('png', 2).then((url) => post({ type: 'export', format: 'png', data: url }));
 });
 
+// The chart fills what the toolbar, sliders and chips leave: follow its size (vega only watches the window).
+new ResizeObserver(() => {
+  if (!view || chart.clientWidth === 0 || chart.clientHeight === 0) return;
+  void view.width(chart.clientWidth).height(chart.clientHeight).resize().runAsync();
+}).observe(chart);
+
 // Theme switches change the body's classes; re-embed so axis and legend colours follow.
-new MutationObserver(() => { if (data) void render().catch(fail); }).observe(document.body, { attributes: true, attributeFilter: ['class'] });
+new MutationObserver(() => {
+  if (state) renderChips(state);
+  if (data) void render().catch(fail);
+}).observe(document.body, { attributes: true, attributeFilter: ['class'] });
 
 function fail(e: unknown): void {
   const message = e instanceof Error ? e.message : String(e);

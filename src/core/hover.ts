@@ -59,15 +59,16 @@ export function num(v: number | null | undefined, digits = 4): string {
 }
 
 export function interval(i: Interval): string {
+  if (i.from !== null && i.from === i.to) return `at ${num(i.from)}`;
   const from = i.from === null ? '(−∞' : `[${num(i.from)}`;
   const to = i.to === null ? '+∞)' : `${num(i.to)}]`;
   return `${from}, ${to}`;
 }
 
 /** Escapes text for markdown (inside backticks only backticks matter; we use double backticks when needed). */
-function code(text: string): string {
+function code(text: string, max = 160): string {
   const t = text.replace(/\s+/g, ' ').trim();
-  const clipped = t.length > 160 ? `${t.slice(0, 157)}…` : t;
+  const clipped = t.length > max ? `${t.slice(0, max - 1)}…` : t;
   return clipped.includes('`') ? `\`\` ${clipped} \`\`` : `\`${clipped}\``;
 }
 
@@ -88,9 +89,28 @@ function rangeText(r: HoverInput['range']): string | undefined {
   return `${lo}, ${hi}`;
 }
 
-function breakdownText(b: RangeInterval[]): string {
-  const shown = b.slice(0, 2).map((i) => `${BREAK_LABEL[i.kind] ?? i.kind} ${interval(i)}`).join(', ');
-  return b.length > 2 ? `${shown} (+${b.length - 2} more)` : shown;
+/**
+ * Merges same-kind intervals separated by less than `gap` (the scan's resolution breaks one region of
+ * inaccuracy into dozens of slivers; a reader wants the region).
+ */
+export function mergeIntervals(b: readonly RangeInterval[], gap: number): (RangeInterval & { pieces: number })[] {
+  const out: (RangeInterval & { pieces: number })[] = [];
+  for (const i of b) {
+    const last = out[out.length - 1];
+    if (last && last.kind === i.kind && last.to !== null && i.from !== null && i.from - last.to <= gap) {
+      last.to = i.to;
+      last.pieces++;
+    } else {
+      out.push({ ...i, pieces: 1 });
+    }
+  }
+  return out;
+}
+
+function breakdownText(b: RangeInterval[], gap: number): string {
+  const merged = mergeIntervals(b, gap);
+  const shown = merged.slice(0, 2).map((i) => `${BREAK_LABEL[i.kind] ?? i.kind} ${interval(i)}${i.pieces > 1 ? ' (patchy)' : ''}`).join(', ');
+  return merged.length > 2 ? `${shown} (+${merged.length - 2} more)` : shown;
 }
 
 /** Markdown for the card. */
@@ -99,22 +119,30 @@ export function buildHoverCard(r: HoverInput, opts: HoverOptions): string {
   const out: string[] = [];
   const title = r.recognised ? `**${esc(r.recognised)}**  ` : '';
   out.push(`${title}${code(`f(${v}) = ${r.expressionDisplay ?? r.expression}`)}`);
+  const links: string[] = [];
+  if (opts.links?.plot) links.push(`[$(graph-line) Plot](${opts.links.plot} "Plot f, f′ and f″ in a panel")`);
+  if (opts.links?.copy) links.push(`[$(copy) Copy f′](${opts.links.copy} "Copy the derivative as code")`);
   const params = Object.entries(r.parameters ?? {});
   const meta: string[] = [];
   if (params.length) meta.push(params.map(([k, val]) => `${k} = ${num(val, 6)}`).join(', '));
   if (r.unbound?.length) meta.push(`unbound: ${r.unbound.join(', ')}`);
-  if (meta.length) out.push(`*${esc(meta.join(' · '))}*`);
+  // Links on the second line: the card can be taller than the hover widget, and they must stay in view.
+  const second = [...(meta.length ? [`*${esc(meta.join(' · '))}*`] : []), ...links];
+  if (second.length) out.push('', second.join(' · '));
   out.push('');
 
-  // Derivatives as a two-column table: scannable, aligned.
-  const rows: [string, string][] = [[`f′(${v})`, code(r.derivativeDisplay ?? r.derivative)]];
+  // One line per derivative, label first: scannable, no table column to wrap labels into.
+  out.push(`**f′** ${code(r.derivativeDisplay ?? r.derivative, 120)}  `);
   if (r.secondDerivative !== undefined || r.secondDerivativeDisplay !== undefined) {
-    rows.push([`f″(${v})`, code(r.secondDerivativeDisplay ?? r.secondDerivative ?? '')]);
+    out.push(`**f″** ${code(r.secondDerivativeDisplay ?? r.secondDerivative ?? '', 90)}  `);
   }
-  if (r.derivativeInOutput) rows.push(['f′ in y = f', code(r.derivativeInOutput)]);
-  // A pipe inside a table cell ends the cell even within a code span (GFM): escape it.
-  out.push('| | |', '|:--|:--|', ...rows.map(([a, b]) => `| ${a} | ${b.replace(/\|/g, '\\|')} |`));
+  if (r.derivativeInOutput) out.push(`**f′ in y = f(${v})** ${code(r.derivativeInOutput, 90)}`);
   out.push('');
+  // The picture right after the formulas: the quickest thing to read, and above the widget's fold.
+  if (r.spark) {
+    const svg = sparkSvg(r.spark.xs, r.spark.f, r.spark.df);
+    if (svg) out.push(`![f (solid) and f′ (dashed) of ${esc(r.input.slice(0, 40))}](${svgDataUri(svg)})`, '');
+  }
 
   const facts: string[] = [];
   const sat = (r.saturation ?? []).filter((s) => s.kind === 'saturating');
@@ -138,20 +166,18 @@ export function buildHoverCard(r: HoverInput, opts: HoverOptions): string {
 
   // One line per float type: only what breaks; a type that is fine says so in one word.
   const floatLines: string[] = [];
+  const gap = r.domain ? (r.domain[1] - r.domain[0]) / 40 : 5;
   for (const t of opts.floatTypes) {
     const lim = r.floatLimits?.[t];
     if (!lim) continue;
     const b = lim.breakdown ?? [];
     const db = lim.derivative?.breakdown ?? [];
     const parts: string[] = [];
-    if (b.length) parts.push(`f ${breakdownText(b)}`);
-    if (db.length) parts.push(`f′ ${breakdownText(db)}`);
+    if (b.length) parts.push(`f ${breakdownText(b, gap)}`);
+    if (db.length) parts.push(`f′ ${breakdownText(db, gap)}`);
     floatLines.push(`\`${FLOAT_LABEL[t]}\` ${parts.length ? parts.join(' · ') : `no breakdown${r.domain ? ` on ${interval({ from: r.domain[0], to: r.domain[1] })}` : ''}`}`);
   }
-  if (floatLines.length) {
-    if (facts.length) out.push('');
-    out.push(...floatLines.map((l) => `- ${l}`));
-  }
+  out.push(...floatLines.map((l) => `- ${l}`));
 
   const suggestions = (r.suggestions ?? []).filter((s) => s.title || s.expression);
   if (suggestions.length) {
@@ -165,14 +191,6 @@ export function buildHoverCard(r: HoverInput, opts: HoverOptions): string {
   }
   if (r.simplifyNote) out.push('', `*${esc(r.simplifyNote)}*`);
 
-  if (r.spark) {
-    const svg = sparkSvg(r.spark.xs, r.spark.f, r.spark.df);
-    if (svg) out.push('', `![f (solid) and f′ (dashed) of ${esc(r.input.slice(0, 40))}](${svgDataUri(svg)})`);
-  }
-  const links: string[] = [];
-  if (opts.links?.plot) links.push(`[$(graph-line) Open plot](${opts.links.plot} "Plot f, f′ and f″ in a panel")`);
-  if (opts.links?.copy) links.push(`[$(copy) Copy f′](${opts.links.copy} "Copy the derivative as code")`);
-  if (links.length) out.push('', links.join(' · '));
   return out.join('\n');
 }
 

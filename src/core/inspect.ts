@@ -4,6 +4,7 @@
  * asks for the same formula again and again.
  */
 import { analyzeFormula, type Analysis, type AnalysisOptions } from './analysis';
+import { SlopewiseError } from './errors';
 import { derive, displayForm, latexForm, parseFormula } from './expr';
 import type { Language, ParameterSource } from './types';
 
@@ -95,11 +96,22 @@ function compute(input: string, opts: InspectOptions): InspectResult {
   if (opts.saturationThreshold !== undefined) aopts.saturationThreshold = opts.saturationThreshold;
   if (opts.domain !== undefined) aopts.domain = opts.domain;
   if (opts.parts !== undefined) aopts.parts = opts.parts;
-  const { notes: analysisNotes, ...analysis } = analyzeFormula(formula, derivs, aopts);
+  let full: Analysis;
+  try {
+    full = analyzeFormula(formula, derivs, aopts);
+  } catch (e) {
+    // Option errors (threshold, domain) are the caller's to fix.
+    if (e instanceof RangeError) throw new SlopewiseError('bad-argument', e.message);
+    throw e;
+  }
+  const { notes: analysisNotes, ...analysis } = full;
   return { ...engine, ...analysis, notes: [...notes, ...analysisNotes] };
 }
 
-/** Inspects one formula (cached). Throws SlopewiseError for input the engine cannot read. */
+/**
+ * Inspects one formula (cached; the returned object is shared between callers — do not mutate it).
+ * Throws SlopewiseError for input the engine cannot read or options out of range.
+ */
 export function inspect(input: string, opts: InspectOptions = {}): InspectResult {
   const k = cacheKey(input, opts);
   const hit = cache.get(k);

@@ -8,6 +8,7 @@ import { isSlopewiseError, SlopewiseError } from '../core/errors';
 import { LANGUAGES, type Derivatives, type Finding, type FloatType, type Formula, type FoundFormula, type Language, type ParseOptions } from '../core/types';
 import { parseFormula, derive, displayForm } from '../core/expr';
 import { compileScalar } from '../core/expr/compile';
+import { math } from '../core/math';
 import { analyzeFormula } from '../core/analysis';
 import { findFormulas } from '../core/detect';
 import { checkText, type CheckOptions } from '../core/check';
@@ -63,7 +64,7 @@ export function inspectText(text: string, opts: InspectOptions): HoverInput {
   };
   if (formula.recognised) out.recognised = formula.recognised;
   if (derivs.simplifyNote) out.simplifyNote = derivs.simplifyNote;
-  if (analysis.derivativeInOutput !== undefined) out.derivativeInOutput = analysis.derivativeInOutput;
+  if (analysis.derivativeInOutput !== undefined) out.derivativeInOutput = outputFormDisplay(analysis.derivativeInOutput);
   if (analysis.saturation) out.saturation = analysis.saturation;
   if (analysis.kinks) out.kinks = analysis.kinks;
   if (analysis.discontinuities) out.discontinuities = analysis.discontinuities;
@@ -83,6 +84,16 @@ export function inspectText(text: string, opts: InspectOptions): HoverInput {
   return out;
 }
 
+/** The analysis writes f′(y) in stock-mathjs syntax; show it in the same display form as f′ (text we generated, only parsed). */
+function outputFormDisplay(expr: string | null): string | null {
+  if (expr === null) return null;
+  try {
+    return displayForm(math.parse(expr));
+  } catch {
+    return expr;
+  }
+}
+
 /** The x range of the hover card's small plot. */
 const SPARK_DOMAIN: [number, number] = [-6, 6];
 
@@ -96,9 +107,30 @@ function parseOptions(opts: FormulaOpts): ParseOptions {
   return p;
 }
 
+/**
+ * Parsing and deriving under a small LRU: the hover, the plot (every slider step and zoom) and the
+ * commands ask for the same formulas again and again, and simplification is the slow part (100s of ms).
+ */
+const DERIVED_CACHE_SIZE = 64;
+const derivedCache = new Map<string, { formula: Formula; derivs: Derivatives }>();
+
 function parseAndDerive(text: string, opts: FormulaOpts): { formula: Formula; derivs: Derivatives } {
-  const formula = parseFormula(text, parseOptions(opts));
-  return { formula, derivs: derive(formula) };
+  const p = parseOptions(opts);
+  const key = JSON.stringify([text, p.variable ?? '', p.language ?? '', Object.entries(p.params ?? {}).sort()]);
+  const hit = derivedCache.get(key);
+  if (hit) {
+    derivedCache.delete(key);
+    derivedCache.set(key, hit);
+    return hit;
+  }
+  const formula = parseFormula(text, p);
+  const entry = { formula, derivs: derive(formula) };
+  derivedCache.set(key, entry);
+  if (derivedCache.size > DERIVED_CACHE_SIZE) {
+    const oldest = derivedCache.keys().next().value;
+    if (oldest !== undefined) derivedCache.delete(oldest);
+  }
+  return entry;
 }
 
 export function deriveText(text: string, opts: FormulaOpts): Derived {
@@ -130,14 +162,19 @@ export function checkTextIn(text: string, opts: { languageId?: Language; fileNam
 export function plotCurve(request: FormulaOpts & { formula: string }, overrides: Record<string, number>, floatType: FloatType,
   domain: [number, number] = [-6, 6]):
     { curve: CurveInput; variable: string; parameters: Record<string, number> } {
-  const first = parseFormula(request.formula, parseOptions(request));
+  const first = parseAndDerive(request.formula, request).formula;
   const applied: Record<string, number> = { ...first.parameters };
-  for (const [k, v] of Object.entries(overrides)) if (k in applied || first.unbound.includes(k)) applied[k] = v;
-  const formula = Object.keys(overrides).length ? parseFormula(request.formula, parseOptions({ ...request, params: applied })) : first;
+  let changed = false;
+  for (const [k, v] of Object.entries(overrides)) {
+    if (k in applied || first.unbound.includes(k)) {
+      applied[k] = v;
+      changed = true;
+    }
+  }
+  const { formula, derivs } = parseAndDerive(request.formula, changed ? { ...request, params: { ...request.params, ...applied } } : request);
   if (formula.unbound.length) {
     throw new SlopewiseError('no-variable', `no value for ${formula.unbound.join(', ')}: plot a formula with its parameters bound`);
   }
-  const derivs = derive(formula);
   // Float limits only over what is on screen: the chart shows nothing else, and it keeps zooming quick.
   const analysis = analyzeFormula(formula, derivs, { types: [floatType], parts: ['saturation', 'kinks', 'floatLimits'], domain });
   const v = formula.variable;

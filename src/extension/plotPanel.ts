@@ -98,7 +98,6 @@ export class PlotPanel {
       this.entries = [entry];
       this.overrides = {};
     }
-    this.panel.title = this.entries.length === 1 ? `Plot: ${short(request.formula)}` : `Plot: ${this.entries.length} formulas`;
     this.panel.reveal(undefined, true);
     this.update();
   }
@@ -152,6 +151,8 @@ export class PlotPanel {
         void vscode.window.showWarningMessage(`Slopewise: cannot plot ${short(e.request.formula)}: ${err instanceof Error ? err.message : String(err)}`);
       }
     }
+    // Titled by what the chart shows (the display form), not by the raw source text.
+    this.panel.title = curves.length === 1 ? `Plot: ${short(curves[0]!.label)}` : `Plot: ${curves.length} formulas`;
     const data = buildPlotData(curves, { domain: this.domain, samples: this.samples, floatType: this.floatType, variable });
     const state: PlotState = {
       domain: this.domain,
@@ -248,16 +249,16 @@ export class PlotPanel {
 <body>
 <header class="toolbar" role="toolbar" aria-label="Plot controls">
   <fieldset class="layers" aria-label="Curves shown">
-    <label><input type="checkbox" id="show-f" checked> f</label>
-    <label><input type="checkbox" id="show-d1" checked> f′</label>
-    <label><input type="checkbox" id="show-d2"> f″</label>
+    <label title="f: solid line"><input type="checkbox" id="show-f" checked> f <svg class="dash" width="22" height="6" aria-hidden="true"><line x1="1" y1="3" x2="21" y2="3"/></svg></label>
+    <label title="f′: dashed line"><input type="checkbox" id="show-d1" checked> f′ <svg class="dash" width="22" height="6" aria-hidden="true"><line x1="1" y1="3" x2="21" y2="3" stroke-dasharray="7 4"/></svg></label>
+    <label title="f″: dotted line"><input type="checkbox" id="show-d2"> f″ <svg class="dash" width="22" height="6" aria-hidden="true"><line x1="1" y1="3" x2="21" y2="3" stroke-dasharray="2 3"/></svg></label>
   </fieldset>
   <label class="float">breakdown in <select id="float-type" aria-label="Float type whose breakdown ranges are marked">
     <option value="float16">float16</option><option value="bfloat16">bfloat16</option><option value="float32">float32</option>
   </select></label>
   <span class="domain" aria-label="x range">
-    <button id="zoom-in" title="Zoom in (or scroll on the chart)">＋</button>
-    <button id="zoom-out" title="Zoom out">－</button>
+    <button id="zoom-in" title="Zoom in (or scroll on the chart)" aria-label="Zoom in">+</button>
+    <button id="zoom-out" title="Zoom out (or scroll on the chart)" aria-label="Zoom out">-</button>
     <button id="reset" title="Back to the starting range">reset</button>
     <span id="domain-text" class="muted"></span>
   </span>
@@ -270,10 +271,11 @@ export class PlotPanel {
 <section id="formulas" class="formulas" aria-label="Formulas on the chart"></section>
 <main id="chart" class="chart" aria-label="Chart"></main>
 <footer class="legend-note muted">
-  <span class="swatch saturating"></span> saturating (|f′| small)
-  <span class="swatch dead"></span> dead (f′ = 0)
-  <span class="swatch breakdown"></span> float breakdown
-  <span class="kink">◆</span> kink · drag to pan, scroll to zoom
+  <span class="item"><span class="swatch saturating"></span> saturating (|f′| small)</span>
+  <span class="item"><span class="swatch dead"></span> dead (f′ = 0)</span>
+  <span class="item"><span class="swatch breakdown"></span> float breakdown</span>
+  <span class="item"><span class="kink">◆</span> kink</span>
+  <span class="item">drag to pan, scroll to zoom</span>
   <span id="status" role="status"></span>
 </footer>
 <script nonce="${nonce}" src="${media('dist/plot.js').toString()}"></script>

@@ -67,7 +67,7 @@ export function at(doc: vscode.TextDocument, text: string, delta = 1): vscode.Po
 export async function slopewiseHover(uri: vscode.Uri, pos: vscode.Position): Promise<string> {
   const hovers = await vscode.commands.executeCommand<vscode.Hover[]>('vscode.executeHoverProvider', uri, pos);
   const texts = (hovers ?? []).flatMap((h) => h.contents.map((c) => (typeof c === 'string' ? c : c.value)));
-  return texts.find((t) => t.includes('f′(')) ?? '';
+  return texts.find((t) => t.includes('**f′**')) ?? '';
 }
 
 export function ours(uri: vscode.Uri, code?: string): vscode.Diagnostic[] {

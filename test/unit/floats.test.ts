@@ -57,6 +57,14 @@ describe('floats: IEEE 754 formats', () => {
     assert.equal(f.precision, 8);
     assert.equal(float32Bits(f.minSubnormal), 0x00010000);
   });
+  it('bfloat16 keeps the upper half of the binary32 pattern, rounded to nearest even (worked by hand)', () => {
+    // π in binary32 is 0x40490FDB: low half 0x0FDB < 0x8000 → 0x4049 = 3.140625.
+    assert.equal(roundTo('bfloat16', Math.PI), 3.140625);
+    assert.equal(float32Bits(roundTo('bfloat16', Math.PI)), 0x40490000);
+    // 1/3 in binary32 is 0x3EAAAAAB: low half 0xAAAB > 0x8000 → 0x3EAB = 0.333984375.
+    assert.equal(float32Bits(roundTo('bfloat16', 1 / 3)), 0x3eab0000);
+    assert.equal(roundTo('bfloat16', 1 / 3), 0.333984375);
+  });
 });
 
 describe('floats: rounding cross-checks', () => {

@@ -47,10 +47,23 @@ describe('hover card', () => {
     assert.equal(lines[0], '**sigmoid**  `f(x) = σ(x)`');
   });
 
-  it('shows f′, f″ and f′ in terms of the output in one table', () => {
-    assert.ok(card.includes('| f′(x) | `σ(x)·(1 − σ(x))` |'));
-    assert.ok(card.includes('| f″(x) | `σ(x)·(1 − σ(x))·(1 − 2σ(x))` |'));
-    assert.ok(card.includes('| f′ in y = f | `y * (1 - y)` |'));
+  it('keeps the command links on the second line, above anything the widget might scroll away', () => {
+    assert.equal(lines[2], '[$(graph-line) Plot](command:slopewise.plotFormula?%5B%5D "Plot f, f′ and f″ in a panel") · '
+      + '[$(copy) Copy f′](command:slopewise.copyDerivative?%5B%5D "Copy the derivative as code")');
+  });
+
+  it('shows f′, f″ and f′ in terms of the output, one labelled line each', () => {
+    assert.ok(lines.includes('**f′** `σ(x)·(1 − σ(x))`  '));
+    assert.ok(lines.includes('**f″** `σ(x)·(1 − σ(x))·(1 − 2σ(x))`  '));
+    assert.ok(lines.includes('**f′ in y = f(x)** `y * (1 - y)`'));
+  });
+
+  it('merges a patchy breakdown into one region and clips very long derivatives', () => {
+    const slivers = Array.from({ length: 30 }, (_, i) => ({ from: -100 + i, to: -99.6 + i, kind: 'inaccurate' }));
+    const c = buildHoverCard({ ...SIGMOID, secondDerivativeDisplay: 'x'.repeat(300),
+      floatLimits: { float16: { breakdown: slivers, derivative: null } } }, { floatTypes: ['float16'] });
+    assert.ok(c.includes('- `fp16` f inaccurate [−100, −70.6] (patchy)'), c);
+    assert.ok(c.split('\n').some((l) => l.startsWith('**f″** `xxx') && l.includes('…') && l.length < 110));
   });
 
   it('states saturating ranges with open ends as ±∞, and the shape figures on one line', () => {
@@ -71,7 +84,7 @@ describe('hover card', () => {
     const svg = Buffer.from(img[1]!.split(',')[1]!, 'base64').toString('utf8');
     assert.match(svg, /^<svg xmlns="http:\/\/www.w3.org\/2000\/svg"/);
     assert.equal((svg.match(/<path /g) ?? []).length, 2);
-    assert.ok(card.includes('[$(graph-line) Open plot](command:slopewise.plotFormula?%5B%5D'));
+    assert.ok(card.includes('[$(graph-line) Plot](command:slopewise.plotFormula?%5B%5D'));
     assert.ok(card.includes('[$(copy) Copy f′](command:slopewise.copyDerivative?%5B%5D'));
   });
 

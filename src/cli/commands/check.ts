@@ -5,7 +5,7 @@
  */
 import type { CommandSpec } from '../main';
 import pkg from '../../../package.json';
-import { checkText } from '../../core/check/index';
+import { checkSource } from '../../core/check/index';
 import { findingRecords, formatFindingsText, type FindingRecord } from '../../core/report';
 import { toSarif } from '../../core/sarif';
 import { collectSources } from './scan';
@@ -23,7 +23,10 @@ export const command: CommandSpec = {
     const findings: FindingRecord[] = [];
     for (const f of src.files) {
       try {
-        findings.push(...findingRecords(f.file, f.text, checkText(f.text, { fileName: f.file })));
+        const r = checkSource(f.text, { fileName: f.file });
+        findings.push(...findingRecords(f.file, f.text, r.findings));
+        // limits and budgets that cut the check short (not per-formula notes such as "no forward found")
+        for (const n of r.notes) if (/budget|longer than|larger than/.test(n)) src.problems.push({ file: f.file, message: n });
       } catch (e) {
         src.problems.push({ file: f.file, message: `could not be checked: ${e instanceof Error ? e.message : String(e)}` });
       }

@@ -9,7 +9,7 @@
 import { readdirSync, readFileSync, statSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import type { CommandContext, CommandSpec } from '../main';
-import { findFormulas, languageInfo } from '../../core/detect/index';
+import { languageInfo, scanText } from '../../core/detect/index';
 import { LIMITS } from '../../core/limits';
 import { formatFormulasText, formulaRecords, type FormulaRecord, type Problem } from '../../core/report';
 
@@ -129,7 +129,9 @@ export const command: CommandSpec = {
     for (const f of src.files) {
       const info = languageInfo(undefined, f.file);
       try {
-        formulas.push(...formulaRecords(f.file, f.text, findFormulas(f.text, { fileName: f.file }), info.label));
+        const r = scanText(f.text, { fileName: f.file });
+        formulas.push(...formulaRecords(f.file, f.text, r.formulas, info.label));
+        for (const s of r.skipped) src.problems.push({ file: f.file, message: s });
       } catch (e) {
         src.problems.push({ file: f.file, message: `could not be scanned: ${e instanceof Error ? e.message : String(e)}` });
       }

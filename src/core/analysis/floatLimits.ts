@@ -17,9 +17,9 @@
  *    the exact value rounds to a non-zero number), `inaccurate` (|got − exact| > 1e-2·max(|exact|,
  *    min normal) — relative error, measured against the smallest normal below it so that subnormal
  *    granularity is not reported). Points where the exact value itself overflows the type are not
- *    breakdowns of the formula and are skipped. Grid: 2001 points over the domain (default
+ *    breakdowns of the formula and are skipped. Grid: 1001 points over the domain (default
  *    [−100, 100]), each change of kind refined by bisection on x.
- * Approximate: a breakdown narrower than the grid step (0.1 on [−100, 100]) between two good
+ * Approximate: a breakdown narrower than the grid step (0.2 on [−100, 100]) between two good
  * points is missed; the exact reference is double precision, which is itself inexact where the
  * formula cancels catastrophically in double.
  */
@@ -27,7 +27,7 @@ import type { MathNode } from 'mathjs';
 import { compileProbed, compileRounded, compileScalar } from '../expr/compile';
 import { FLOAT_FORMATS, rounder } from '../floats';
 import type { FloatType, ScalarFn } from '../types';
-import { behaviourGrid, bisectBoundary, tidy, uniformGrid, FAR } from './numeric';
+import { behaviourGrid, bisectBoundary, tidy, uniformGrid, DENSE_HALF_WIDTH, FAR } from './numeric';
 import { stableForm } from './patterns';
 
 export type BreakdownKind = 'overflow' | 'nan' | 'zero' | 'inaccurate';
@@ -71,7 +71,7 @@ export interface FloatLimits extends FunctionFloatLimits {
 }
 
 export const RELATIVE_TOLERANCE = 1e-2;
-export const BREAKDOWN_POINTS = 2000;
+export const BREAKDOWN_POINTS = 1000;
 const OVERFLOW_POINTS = 500;
 const MAX_OPERATIONS = 40;
 const MAX_INTERVALS = 40;
@@ -107,8 +107,9 @@ function typeBisect<K>(classify: (x: number) => K, a: number, b: number, ca: K, 
   for (let i = 0; i < 60; i++) {
     const mid = 0.5 * (lo + hi);
     if (mid === lo || mid === hi || R(mid) === R(lo) || R(mid) === R(hi)) {
-      // lo and hi are at most one representable input apart: the edge is the first input of hi's kind.
-      return R(hi) !== R(lo) ? R(hi) : mid;
+      // lo and hi are at most one representable input apart: the edge is the last input of lo's
+      // kind, so a run is reported as [first, last] inputs of its kind.
+      return R(lo);
     }
     if (classify(mid) === ca) lo = mid;
     else hi = mid;
@@ -233,17 +234,30 @@ export function limitAt(h: ScalarFn, dir: 1 | -1): number | null {
   return Math.abs(a - b) <= 1e-6 * (1 + Math.abs(b)) ? b : null;
 }
 
+/**
+ * Points of each half line, from the origin outward (computed once): every 10th point of the
+ * behaviour grid's dense part (step 0.2), then its geometric tail. The threshold is refined by
+ * bisection between the last point that has not reached the limit and the next one out.
+ */
+let halves: { neg: number[]; pos: number[] } | null = null;
+function halfLines(): { neg: number[]; pos: number[] } {
+  if (!halves) {
+    const g = behaviourGrid().filter((x) => Math.abs(x) > DENSE_HALF_WIDTH || Math.abs(Math.round(x * 5) - x * 5) < 1e-9);
+    halves = { neg: g.filter((x) => x < 0).reverse(), pos: g.filter((x) => x > 0) };
+  }
+  return halves;
+}
+
 function asymptotes(exact: ScalarFn, rounded: ScalarFn, type: FloatType): AsymptoteRounding[] {
   const R = rounder(type);
   const max = FLOAT_FORMATS[type].max;
-  const grid = behaviourGrid();
   const out: AsymptoteRounding[] = [];
   for (const dir of [-1, 1] as const) {
     const L = limitAt(exact, dir);
     if (L === null) continue;
     const target = R(L);
     // Points of this half line, from 0 outward.
-    const half = grid.filter((x) => x * dir > 0).map((x) => Math.abs(x)).sort((p, q) => p - q).map((a) => dir * a);
+    const half = dir > 0 ? halfLines().pos : halfLines().neg;
     const threshold = (value: (x: number) => number, pts: number[]): number | null => {
       // the last point (from the origin outward) whose value is not yet the limit
       let last = pts.length - 1;

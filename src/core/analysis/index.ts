@@ -8,9 +8,10 @@
  */
 import type { MathNode } from 'mathjs';
 import { FLOAT_TYPES, type Derivatives, type FloatType, type Formula } from '../types';
+import { LIMITS } from '../limits';
 import { prepare, type Prepared } from './prepare';
 import { saturationIntervals, type SaturationInterval } from './saturation';
-import { kinksAndJumps } from './kinks';
+import { kinksAndJumps, type KinkResult } from './kinks';
 import { range, monotonicity, lipschitz, type RangeResult, type Monotonicity } from './shape';
 import { normalMoments } from './gain';
 import { floatLimits, floatShared, type FloatLimits } from './floatLimits';
@@ -52,6 +53,11 @@ export interface AnalysisOptions {
   types?: readonly FloatType[];
   /** Parts to compute. Default all. */
   parts?: readonly AnalysisPart[];
+  /**
+   * Wall-clock budget (ms) for the whole analysis; parts that would start after it is spent are
+   * skipped and listed in `skipped`. Default `LIMITS.formulaBudgetMs`.
+   */
+  budgetMs?: number;
 }
 
 export interface Analysis {
@@ -112,7 +118,7 @@ export function analyzeFormula(formula: Formula, derivs: Derivatives, opts: Anal
   };
   if (formula.unbound.length > 0) return skipAll(`no value for ${formula.unbound.join(', ')}: give it with --param`);
 
-  let t = now();
+  const t = now();
   let p: Prepared;
   try {
     p = prepare(formula.node, derivs.firstNode, formula.variable, formula.parameters);
@@ -121,9 +127,14 @@ export function analyzeFormula(formula: Formula, derivs: Derivatives, opts: Anal
   }
   result.timings.prepare = now() - t;
 
+  const deadline = t + (opts.budgetMs ?? LIMITS.formulaBudgetMs);
   const run = (part: AnalysisPart, body: () => void): void => {
     if (!parts.has(part)) return;
     const start = now();
+    if (start > deadline) {
+      result.skipped.push({ part, reason: `time budget of ${opts.budgetMs ?? LIMITS.formulaBudgetMs} ms spent before this part` });
+      return;
+    }
     try {
       body();
     } catch (e) {
@@ -134,8 +145,10 @@ export function analyzeFormula(formula: Formula, derivs: Derivatives, opts: Anal
 
   let kinkPoints: number[] = [];
   let jumpPoints: number[] = [];
+  let jumps: KinkResult | null = null;
   run('kinks', () => {
     const k = kinksAndJumps(p);
+    jumps = k;
     kinkPoints = k.kinks;
     jumpPoints = k.discontinuities;
     result.kinks = k.kinks;
@@ -148,13 +161,29 @@ export function analyzeFormula(formula: Formula, derivs: Derivatives, opts: Anal
     const s = saturationIntervals(p, threshold);
     result.saturation = s.intervals;
     if (s.truncated) result.notes.push(`saturation: only the first ${s.intervals.length} intervals are listed`);
+    if (s.oscillating) result.notes.push('saturation: f′ keeps changing class beyond |x| = 20 (oscillates); only intervals within [−20, 20] are listed');
   });
   run('shape', () => {
-    result.range = range(p);
-    result.monotone = monotonicity(p);
-    const l = lipschitz(p);
-    result.lipschitz = l.value;
-    result.lipschitzAt = l.at;
+    // Jumps and poles are found by the kinks part; run it here if it was not asked for.
+    const k: KinkResult = jumps ?? kinksAndJumps(p);
+    const r = range(p);
+    for (const pole of k.poles) {
+      if (pole.left < 0 || pole.right < 0) r.inf = null;
+      if (pole.left > 0 || pole.right > 0) r.sup = null;
+    }
+    if (r.inf === null) r.infAttained = false;
+    if (r.sup === null) r.supAttained = false;
+    result.range = r;
+    result.monotone = acrossJumps(monotonicity(p), k);
+    if (jumpPoints.length > 0) {
+      // A jump has no finite Lipschitz constant, whatever f′ is away from it.
+      result.lipschitz = null;
+      result.lipschitzAt = null;
+    } else {
+      const l = lipschitz(p);
+      result.lipschitz = l.value;
+      result.lipschitzAt = l.at;
+    }
   });
   run('gain', () => {
     // Split the quadrature at kinks and jumps, and at every branch switch (harmless when smooth).
@@ -185,9 +214,29 @@ export function analyzeFormula(formula: Formula, derivs: Derivatives, opts: Anal
           derivative: Object.fromEntries(types.map((t) => [t, fl[t]?.derivative?.breakdown])),
         }
       : {};
-    result.suggestions = stableRewrites(p.node, p.dnode, p.variable, p.params, types, domain, known);
+    result.suggestions = stableRewrites(p.node, p.dnode, p.variable, p.params, types, domain, known, deadline);
   });
   return result;
+}
+
+/**
+ * Monotonicity over ℝ from f′ on the pieces and the direction of every jump: 1/x decreases on both
+ * sides of 0 but jumps up there, so it is not monotone; a step is non-decreasing.
+ */
+function acrossJumps(m: Monotonicity, k: KinkResult): Monotonicity {
+  if (k.poles.length > 0) {
+    // a pole from −∞ to +∞ (or back) breaks any monotonicity unless both sides agree with it
+    const ups = k.poles.every((q) => q.left < 0 && q.right > 0);
+    const downs = k.poles.every((q) => q.left > 0 && q.right < 0);
+    if (!((ups && (m === 'increasing' || m === 'non-decreasing')) || (downs && (m === 'decreasing' || m === 'non-increasing')))) return 'none';
+  }
+  if (k.jumps.length === 0) return m;
+  const up = k.jumps.every((j) => j.size > 0);
+  const down = k.jumps.every((j) => j.size < 0);
+  if (m === 'constant') return up ? 'non-decreasing' : down ? 'non-increasing' : 'none';
+  if ((m === 'increasing' || m === 'non-decreasing') && up) return m;
+  if ((m === 'decreasing' || m === 'non-increasing') && down) return m;
+  return 'none';
 }
 
 /** Exposed for tests and the checker: the prepared samples of a formula. */

@@ -15,14 +15,32 @@
 import type { Prepared } from './prepare';
 import { tidy } from './numeric';
 
+export interface Pole {
+  x: number;
+  /** Sign of f just left and right of the pole (−1 → −∞, +1 → +∞). */
+  left: number;
+  right: number;
+}
+
+export interface Jump {
+  x: number;
+  /** f(c + h) − f(c − h) for a small h: > 0 jumps up. */
+  size: number;
+}
+
 export interface KinkResult {
   kinks: number[];
   discontinuities: number[];
+  /** Discontinuities where |f| grows without bound (1/x at 0). */
+  poles: Pole[];
+  jumps: Jump[];
 }
 
 export function kinksAndJumps(p: Prepared): KinkResult {
   const kinks: number[] = [];
   const discontinuities: number[] = [];
+  const poles: Pole[] = [];
+  const jumps: Jump[] = [];
   for (const c of p.breaks) {
     const s = Math.max(1, Math.abs(c));
     const jump = (h: number): number => Math.abs(p.f(c + h) - p.f(c - h));
@@ -33,6 +51,11 @@ export function kinksAndJumps(p: Prepared): KinkResult {
     if (Number.isNaN(j1)) continue; // one side outside the domain
     if (j1 === Infinity || (j1 > 1e-8 * scaleF && j1 >= 0.5 * j2)) {
       discontinuities.push(tidy(c));
+      // A pole: |f| keeps growing as c is approached (×10 or more over two decades of h).
+      const near = Math.max(Math.abs(p.f(c - 1e-12 * s)), Math.abs(p.f(c + 1e-12 * s)));
+      const far = Math.max(Math.abs(p.f(c - 1e-8 * s)), Math.abs(p.f(c + 1e-8 * s)));
+      if (near === Infinity || near > 10 * far) poles.push({ x: tidy(c), left: Math.sign(p.f(c - 1e-12 * s)), right: Math.sign(p.f(c + 1e-12 * s)) });
+      else jumps.push({ x: tidy(c), size: p.f(c + 1e-10 * s) - p.f(c - 1e-10 * s) });
       continue;
     }
     const h = 1e-9 * s;
@@ -41,5 +64,5 @@ export function kinksAndJumps(p: Prepared): KinkResult {
     if (!Number.isFinite(dl) || !Number.isFinite(dr)) continue;
     if (Math.abs(dl - dr) > 1e-6 * (1 + Math.abs(dl) + Math.abs(dr))) kinks.push(tidy(c));
   }
-  return { kinks, discontinuities };
+  return { kinks, discontinuities, poles, jumps };
 }

@@ -194,6 +194,7 @@ function fitInOutput(samples: Array<{ p: number; y: number; g: number }>): strin
   const inY = polynomialText(cs.slice(4), 'p');
   const free = polynomialText(cs.slice(0, 4), 'p');
   if (inY === '0') return free;
+  if (free === '0') return `y * (${inY})`;
   return `${free} + y * (${inY})`;
 }
 
@@ -240,6 +241,8 @@ export function analyzePairing(activation: Formula | 'softmax', lossName: string
     const mid = 0.5 * (lo + hi);
     for (const target of [lo, hi]) {
       const Lmid = L(mid, target);
+      // a loss undefined at the midpoint does not fit this activation's range (BCE on tanh)
+      if (!Number.isFinite(Lmid)) continue;
       let gmax = 0;
       const zs: number[] = [];
       for (let i = 0; i <= 6000; i++) zs.push(-30 + i * 0.01);

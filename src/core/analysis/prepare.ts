@@ -54,7 +54,8 @@ export function prepare(node: MathNode, dnode: MathNode, variable: string, param
   for (let i = 0; i < grid.length; i++) {
     const x = grid[i] as number;
     fs[i] = f(x);
-    dfs[i] = df(x);
+    // Outside f's domain (log x for x < 0) f′ means nothing, whatever its tree evaluates to.
+    dfs[i] = Number.isNaN(fs[i] as number) ? NaN : df(x);
     deads[i] = dead(x) ? 1 : 0;
   }
   // Where f′ is NaN but f is finite, double precision overflowed inside the derivative as written

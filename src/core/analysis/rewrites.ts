@@ -77,17 +77,23 @@ export interface KnownBreakdowns {
   derivative?: Partial<Record<FloatType, BreakdownInterval[]>>;
 }
 
-export function stableRewrites(node: MathNode, dnode: MathNode | null, variable: string, params: Record<string, number>, types: readonly FloatType[], domain: readonly [number, number], known: KnownBreakdowns = {}): Suggestion[] {
+/** Distinct rewrites tried per tree (each costs a breakdown scan per type). */
+export const MAX_REWRITES = 6;
+
+const now = (): number => (typeof performance !== 'undefined' ? performance.now() : Date.now());
+
+export function stableRewrites(node: MathNode, dnode: MathNode | null, variable: string, params: Record<string, number>, types: readonly FloatType[], domain: readonly [number, number], known: KnownBreakdowns = {}, deadline = Infinity): Suggestion[] {
   const out: Suggestion[] = [];
   const targets: Array<['function' | 'derivative', MathNode]> = [['function', node]];
   if (dnode) targets.push(['derivative', dnode]);
   for (const [target, tree] of targets) {
-    const found = candidates(tree);
+    const found = candidates(tree).slice(0, MAX_REWRITES);
     if (found.length === 0) continue;
     const exact = compileScalar(stableForm(tree), variable, params);
     const before: Partial<Record<FloatType, BreakdownInterval[]>> = {};
     for (const type of types) before[type] = known[target]?.[type] ?? breakdownIntervals(exact, compileRounded(tree, variable, params, type), type, domain);
     for (const cand of found) {
+      if (now() > deadline) break;
       if (!sameInDouble(tree, cand.rewritten, variable, params)) continue;
       const after: Partial<Record<FloatType, BreakdownInterval[]>> = {};
       let helps = false;

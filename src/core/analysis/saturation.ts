@@ -9,7 +9,7 @@
  * break runs but are not reported.
  */
 import { snapToBreak, type Prepared } from './prepare';
-import { bisectBoundary, tidy } from './numeric';
+import { bisectBoundary, tidy, DENSE_HALF_WIDTH } from './numeric';
 
 export type SaturationKind = 'saturating' | 'dead';
 
@@ -24,7 +24,7 @@ type Cls = 'dead' | 'saturating' | 'active' | 'undefined';
 /** Longest list reported (a periodic function saturates near every extremum). */
 export const MAX_SATURATION_INTERVALS = 40;
 
-export function saturationIntervals(p: Prepared, threshold: number): { intervals: SaturationInterval[]; truncated: boolean } {
+export function saturationIntervals(p: Prepared, threshold: number): { intervals: SaturationInterval[]; truncated: boolean; oscillating: boolean } {
   const classify = (x: number): Cls => {
     if (p.dead(x)) return 'dead';
     const d = p.df(x);
@@ -52,9 +52,37 @@ export function saturationIntervals(p: Prepared, threshold: number): { intervals
       }
       const from = i === 0 ? null : tidy(bisectBoundary(classify, grid[i] as number, grid[i - 1] as number, c));
       const to = j === n - 1 ? null : tidy(bisectBoundary(classify, grid[j] as number, grid[j + 1] as number, c));
-      out.push({ from: snapToBreak(p, from), to: snapToBreak(p, to), kind: c });
+      const iv = { from: snapToBreak(p, from), to: snapToBreak(p, to), kind: c };
+      // A single point (f′ = 0 exactly at a break point, where the derivative as written picks a
+      // branch) is not an interval.
+      if (iv.from === null || iv.to === null || iv.to > iv.from) out.push(iv);
     }
     i = j + 1;
   }
-  return { intervals: out, truncated };
+  // On the sparse tail (|x| > 20, factor 1.25 apart) an f′ that keeps changing sign or class is not
+  // resolved (sin, cos): keep only what the dense part saw and say so.
+  const changes = (side: number): number => {
+    let c = 0;
+    let prev: Cls | undefined;
+    let prevSign = 0;
+    for (let k = 0; k < n; k++) {
+      const x = grid[k] as number;
+      if (side * x <= DENSE_HALF_WIDTH) continue;
+      const cur = cls[k] as Cls;
+      const d = p.dfs[k] as number;
+      const sg = d > 0 ? 1 : d < 0 ? -1 : 0;
+      if (prev !== undefined && cur !== prev) c++;
+      if (prevSign !== 0 && sg !== 0 && sg !== prevSign) c++;
+      prev = cur;
+      if (sg !== 0) prevSign = sg;
+    }
+    return c;
+  };
+  const oscLeft = changes(-1) > 2;
+  const oscRight = changes(1) > 2;
+  if (oscLeft || oscRight) {
+    const kept = out.filter((iv) => !(oscLeft && (iv.from === null || iv.from < -DENSE_HALF_WIDTH)) && !(oscRight && (iv.to === null || iv.to > DENSE_HALF_WIDTH)));
+    return { intervals: kept, truncated, oscillating: true };
+  }
+  return { intervals: out, truncated, oscillating: false };
 }

@@ -111,7 +111,8 @@ export function monotonicity(p: Prepared): Monotonicity {
   for (let i = 0; i < p.dfs.length; i++) {
     const d = p.dfs[i] as number;
     if (p.deads[i] === 1) {
-      flat = true;
+      // flat on an interval (two neighbouring samples), not at a single break point
+      if (p.deads[i - 1] === 1 || p.deads[i + 1] === 1) flat = true;
       continue;
     }
     if (!Number.isFinite(d)) continue;
@@ -127,7 +128,7 @@ export function monotonicity(p: Prepared): Monotonicity {
 export interface LipschitzResult {
   /** sup |f′| over ℝ; null when unbounded. */
   value: number | null;
-  /** Where it is reached; '+inf'/'-inf' when only approached as x → ±∞. */
+  /** Where it is reached; '+inf'/'-inf' when only approached as x → ±∞; null when unbounded or the same everywhere. */
   at: number | '+inf' | '-inf' | null;
 }
 
@@ -139,6 +140,14 @@ function roundPlace(x: number): number {
 
 export function lipschitz(p: Prepared): LipschitzResult {
   const absd = (x: number): number => Math.abs(p.df(x));
+  // |f′| blowing up at a break point (√|x|, x·sin(1/x) at 0): no finite bound. A bounded f′ near a
+  // kink settles to its one-sided limits instead.
+  for (const c of p.breaks) {
+    const s = Math.max(1, Math.abs(c));
+    const near = Math.max(absd(c - 1e-10 * s), absd(c + 1e-10 * s));
+    const far = Math.max(absd(c - 1e-7 * s), absd(c + 1e-7 * s));
+    if (Number.isFinite(far) && (near === Infinity || near > 10 * Math.max(far, 1e-300))) return { value: null, at: null };
+  }
   const grows = (dir: 1 | -1): boolean => {
     const a = absd(dir * 1e5);
     const b = absd(dir * 1e7);
@@ -182,7 +191,7 @@ export function lipschitz(p: Prepared): LipschitzResult {
   const gap = (j: number): number => (j < 0 || j >= n ? 1 : (best - Math.abs(p.dfs[j] as number)) / best);
   if (xLast >= 1e6 && xFirst > 0 && gap(first - 1) < 1e-10) return { value: tidy(best), at: '+inf' };
   if (xFirst <= -1e6 && xLast < 0 && gap(last + 1) < 1e-10) return { value: tidy(best), at: '-inf' };
-  if (xFirst <= -1e6 && xLast >= 1e6) return { value: tidy(best), at: tidy(x) };
+  if (xFirst <= -1e6 && xLast >= 1e6) return { value: tidy(best), at: null }; // the same everywhere
   let at = xFirst <= -1e6 ? xLast : xFirst;
   // The grid samples break points at b ± 1e-7·max(1, |b|): report the break point itself.
   for (const b of p.breaks) if (Math.abs(b - at) <= 2e-7 * Math.max(1, Math.abs(b))) at = b;

@@ -153,7 +153,19 @@ export function zeroIndicator(node: MathNode, params: Record<string, number>): M
       const name = fnName(node) ?? '';
       const a = args(node);
       if (ZERO_PRESERVING.has(name) && a.length === 1) return zeroIndicator(a[0] as MathNode, params);
-      if ((name === 'max' || name === 'min') && a.length >= 1) return a.map((t) => zeroIndicator(t, params)).reduce(and);
+      if ((name === 'max' || name === 'min') && a.length >= 1) {
+        // zero where the argument it picks is zero: max(a, b) = a >= b ? a : b, folded left.
+        let chosen = a[0] as MathNode;
+        let z = zeroIndicator(chosen, params);
+        for (const next of a.slice(1)) {
+          const zn = zeroIndicator(next, params);
+          const op = name === 'max' ? ['>=', 'largerEq'] : ['<=', 'smallerEq'];
+          const cond = new math.OperatorNode(op[0] as '>=', op[1] as 'largerEq', [chosen.cloneDeep(), next.cloneDeep()]);
+          z = isConstant(z, 0) && isConstant(zn, 0) ? ZERO() : new math.ConditionalNode(cond, z, zn);
+          chosen = new math.FunctionNode(name, [chosen.cloneDeep(), next.cloneDeep()]);
+        }
+        return z;
+      }
       return ZERO();
     }
     default:

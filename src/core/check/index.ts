@@ -8,7 +8,7 @@
  * derivatives → 6. comment vs code → 7. unstable forms and vanishing pairs (../analysis).
  */
 import type { MathNode } from 'mathjs';
-import { LIMITS } from '../limits';
+import { LIMITS, type Limits } from '../limits';
 import { FLOAT_TYPES, type Finding, type Formula, type Language, type ScalarFn, type Span } from '../types';
 import { parseFormula } from '../expr/parse';
 import { differentiate } from '../expr/differentiate';
@@ -19,10 +19,11 @@ import { emitCode, emitLanguageFor } from '../emit';
 import { analyzeSource, derivativeBase, hasSymbol, replaceSymbol, stripKernelSuffix, type CodeFormula, type SourceModel } from '../detect/index';
 import type { CommentFormula } from '../detect/comments';
 import type { Token } from '../detect/lexer';
-import { matchClose, splitArgs } from '../detect/stmt';
-import { compareFunctions, type Comparison } from './compare';
+import { BATCH_SYMBOL, matchClose, splitArgs } from '../detect/stmt';
+import { compareFunctions, samplePoints, type Comparison } from './compare';
+import { math } from '../math';
 import { MESSAGES } from './messages';
-import { TARGET_NAMES, OUTPUT_NAMES } from '../detect/words';
+import { TARGET_NAMES, OUTPUT_NAMES, UPSTREAM_NAMES } from '../detect/words';
 
 /** Width (in x) of a float32 breakdown interval of kind zero/inaccurate that is worth a warning. */
 export const SEVERE_WIDTH = 1;
@@ -34,7 +35,7 @@ export const SIGNIFICANT = 1e-3;
 export interface CheckOptions {
   languageId?: string;
   fileName?: string;
-  limits?: Partial<typeof LIMITS>;
+  limits?: Partial<Limits>;
   /** Rules to run (default all). */
   rules?: readonly Finding['rule'][];
 }
@@ -74,9 +75,19 @@ export function checkSource(text: string, opts: CheckOptions = {}): CheckResult 
   const rules = new Set(opts.rules ?? ['derivative-mismatch', 'formula-mismatch', 'unstable-form', 'vanishing-pair']);
   const language = model.info.language;
 
-  // 2. read every candidate
+  // 2. read every candidate (at most maxFormulasPerFile, within the file's time budget)
   const reads: Read[] = [];
+  let readingStopped = false;
+  const stopReading = (): boolean => {
+    if (readingStopped) return true;
+    if (reads.length >= limits.maxFormulasPerFile) notes.push(`more than ${limits.maxFormulasPerFile} formulas: the rest of the file was not read`);
+    else if (Date.now() - started > limits.fileBudgetMs) notes.push(`time budget of ${limits.fileBudgetMs} ms ran out while reading formulas: the rest of the file was not read`);
+    else return false;
+    readingStopped = true;
+    return true;
+  };
   for (const c of model.codeFormulas) {
+    if (stopReading()) break;
     const params = { ...model.constants, ...c.params };
     for (const u of c.upstream) params[u] = 1;
     const f = tryParse(c.text, language, c.variable, params);
@@ -90,6 +101,7 @@ export function checkSource(text: string, opts: CheckOptions = {}): CheckResult 
     reads.push(r);
   }
   for (const c of model.commentFormulas) {
+    if (stopReading()) break;
     const lang: Language = c.text.includes('\\') ? 'latex' : 'plain';
     const f = tryParse(c.text, lang, c.variable, {});
     if (!f) continue;
@@ -100,6 +112,7 @@ export function checkSource(text: string, opts: CheckOptions = {}): CheckResult 
 
   const findings: Finding[] = [];
   const pairs: CheckResult['pairs'] = [];
+  const usedAsDerivative = derivativesByUse(model, reads);
   const forwards = reads.filter((r) => r.role !== 'derivative' && r.origin === 'code');
   const findForward = (name: string): Read | undefined => {
     const base = stripKernelSuffix(name);
@@ -137,7 +150,7 @@ export function checkSource(text: string, opts: CheckOptions = {}): CheckResult 
       if (fwd) how = 'name';
     }
     if (!fwd) {
-      fwd = pairByCallSite(model, d, forwards);
+      fwd = usedAsDerivative.get(d) ?? pairByCallSite(model, d, forwards);
       if (fwd) how = 'call site';
     }
     if (!fwd) {
@@ -175,17 +188,23 @@ export function checkSource(text: string, opts: CheckOptions = {}): CheckResult 
       continue;
     }
     if (c.forwardName) fwd = findForward(c.forwardName);
-    if (!fwd && below && below.role !== 'derivative') fwd = below;
-    if (!fwd) {
-      // a forward formula in the same comment block
-      fwd = reads.find((r) => r.origin === 'comment' && r.role !== 'derivative' && r.comment!.group === c.group && r.comment!.args.length > 0);
-      how = 'same comment';
-    }
     if (!fwd && c.forwardName) {
       const cat = catalogueForward(c.forwardName);
-      if (cat) fwd = { formula: cat, name: c.forwardName, span: d.span, line: d.line, role: 'activation', origin: 'comment' };
+      if (cat) { fwd = { formula: cat, name: c.forwardName, span: d.span, line: d.line, role: 'activation', origin: 'comment' }; how = 'catalogue name'; }
+    }
+    if (!fwd && below && below.role !== 'derivative') fwd = below;
+    if (!fwd) {
+      // the nearest forward formula above it in the same comment block (else the nearest below)
+      const same = reads.filter((r) => r.origin === 'comment' && r.role !== 'derivative' && r.comment!.group === c.group && r.comment!.args.length > 0);
+      fwd = same.filter((r) => r.line <= c.line).sort((a, b) => b.line - a.line)[0] ?? same.sort((a, b) => a.line - b.line)[0];
+      how = 'same comment';
     }
     if (!fwd) continue;
+    // `grad = …`, `derivative: …` declare no variable: read it in the forward's
+    if (!c.variable && d.formula.variable !== fwd.formula.variable && hasSymbol(c.text, fwd.formula.variable)) {
+      const again = tryParse(c.text, d.formula.language, fwd.formula.variable, {});
+      if (again) d.formula = again;
+    }
     const verdict = compareDerivative(fwd.formula, d, []);
     if (!verdict) continue;
     pairs.push({ derivative: `comment line ${c.line + 1}`, forward: fwd.name, how, argument: verdict.argument, ok: verdict.cmp.ok });
@@ -301,6 +320,36 @@ function pairByCallSite(model: SourceModel, d: Read, forwards: Read[]): Read | u
   return undefined;
 }
 
+/**
+ * Functions used as a derivative at a call site: `g * helper(z)` (g an upstream gradient) in a body
+ * that also applies a forward to the same `z`. Their role becomes `derivative`, paired with that forward.
+ */
+function derivativesByUse(model: SourceModel, reads: Read[]): Map<Read, Read> {
+  const out = new Map<Read, Read>();
+  for (const fn of model.code.functions) {
+    const toks = fn.bodyTokens.filter((t) => t.kind !== 'nl');
+    const calls = callsIn(toks);
+    const ups = new Set(fn.params.map((p) => p.name).filter((n) => UPSTREAM_NAMES.has(n)));
+    if (ups.size === 0) continue;
+    for (const c of calls) {
+      const r = reads.find((x) => x.origin === 'code' && x.role === 'activation' && x.code!.fn.name === c.name);
+      if (!r || out.has(r)) continue;
+      const at = toks.findIndex((t) => t.start === c.start);
+      const close = toks.findIndex((t) => t.end === c.end);
+      const byUpstream = (toks[at - 1]?.text === '*' && ups.has(toks[at - 2]?.text ?? '')) ||
+        (toks[close + 1]?.text === '*' && ups.has(toks[close + 2]?.text ?? ''));
+      if (!byUpstream) continue;
+      const fwdCall = calls.find((o) => o !== c && o.name !== c.name && o.args[0] === c.args[0] &&
+        reads.some((x) => x.origin === 'code' && x.role !== 'derivative' && x.code!.fn.name === o.name));
+      if (!fwdCall) continue;
+      const fwd = reads.find((x) => x.origin === 'code' && x.code!.fn.name === fwdCall.name)!;
+      r.role = 'derivative';
+      out.set(r, fwd);
+    }
+  }
+  return out;
+}
+
 interface Call { name: string; args: string[]; start: number; end: number; line: number }
 
 function callsIn(toks: Token[]): Call[] {
@@ -349,7 +398,7 @@ function sampleAssignments(names: string[]): Record<string, number>[] {
   const b: Record<string, number> = {};
   for (const n of names) {
     if (TARGET_NAMES.has(n)) { a[n] = 1; b[n] = 0.25; }
-    else if (/^(n|N|batch|m|count|size|len)$/.test(n)) { a[n] = 4; b[n] = 7; }
+    else if (/^(n|N|N_batch|batch|m|count|size|len)$/.test(n)) { a[n] = 4; b[n] = 7; }
     else { a[n] = 0.7; b[n] = 1.3; }
   }
   return [a, b];
@@ -395,8 +444,10 @@ function compareDerivativeOnce(fwd: Formula, d: Read, upstream: string[]): Verdi
     return undefined;
   }
   const shared = [...new Set([...fwd.unbound, ...d.formula.unbound])];
-  if (fwd.unbound.some((u) => !d.formula.unbound.includes(u) && u !== d.formula.variable) ||
-    d.formula.unbound.some((u) => !fwd.unbound.includes(u) && !upstream.includes(u))) return undefined;
+  // Every free symbol must get the same value on both sides; a batch size may sit on one side only
+  // (a mean in the forward whose 1/N the backward forgot is exactly the bug to find).
+  if (fwd.unbound.some((u) => !d.formula.unbound.includes(u) && u !== d.formula.variable && u !== BATCH_SYMBOL) ||
+    d.formula.unbound.some((u) => !fwd.unbound.includes(u) && !upstream.includes(u) && u !== BATCH_SYMBOL)) return undefined;
   let best: Verdict | undefined;
   for (const assign of sampleAssignments(shared)) {
     const fp = { ...fwd.parameters, ...assign };
@@ -409,8 +460,9 @@ function compareDerivativeOnce(fwd: Formula, d: Read, upstream: string[]): Verdi
     } catch {
       return undefined;
     }
-    const inputForm = compareFunctions(Fp, D);
-    const outputForm = compareFunctions(Fp, (t) => D(F(t)));
+    const pts = guardedPoints(fwd.node, x, fp);
+    const inputForm = compareFunctions(Fp, D, pts);
+    const outputForm = compareFunctions(Fp, (t) => D(F(t)), pts);
     const hinted = d.argument ?? 'input';
     const first = hinted === 'output' ? outputForm : inputForm;
     const second = hinted === 'output' ? inputForm : outputForm;
@@ -435,6 +487,49 @@ function compareDerivativeOnce(fwd: Formula, d: Read, upstream: string[]): Verdi
     if (!v.cmp.ok) break;
   }
   return best;
+}
+
+/**
+ * Sample points, restricted to [a, b] when the forward clips its own variable there to guard a
+ * domain: `log(clip(p, eps, 1 − eps))` is meant for probabilities, and outside [eps, 1 − eps] the
+ * clip's zero slope is not something a hand-written derivative is expected to reproduce. A clip is a
+ * guard when the formula without it is not finite just outside the interval; a clip that *is* the
+ * function (hard tanh) is left alone.
+ */
+function guardedPoints(node: MathNode, x: string, params: Record<string, number>): number[] {
+  const all = samplePoints();
+  let found: { lo: number; hi: number; clip: MathNode } | undefined;
+  node.traverse((n) => {
+    if (found || n.type !== 'FunctionNode') return;
+    const outer = n as unknown as { fn: { name: string }; args: MathNode[] };
+    const inner = outer.args[0] as unknown as { type: string; fn?: { name: string }; args?: MathNode[] };
+    if (!inner || inner.type !== 'FunctionNode' || !inner.args || outer.args.length !== 2 || inner.args.length !== 2) return;
+    const pair = `${outer.fn.name}/${inner.fn!.name}`;
+    if (pair !== 'min/max' && pair !== 'max/min') return;
+    const v = inner.args[0] as unknown as { type: string; name?: string };
+    if (v.type !== 'SymbolNode' || v.name !== x) return;
+    try {
+      const a = compileScalar(inner.args[1]!, x, params)(0);
+      const b = compileScalar(outer.args[1]!, x, params)(0);
+      const lo = Math.min(a, b);
+      const hi = Math.max(a, b);
+      if (Number.isFinite(lo) && Number.isFinite(hi) && hi > lo) found = { lo, hi, clip: n };
+    } catch { /* not constant bounds */ }
+  });
+  if (!found) return all;
+  const { lo, hi, clip } = found;
+  try {
+    const unclipped = node.transform((n) => (n === clip ? new math.SymbolNode(x) : n));
+    const g = compileScalar(unclipped, x, params);
+    const w = hi - lo;
+    const guard = [lo - 0.25 * w - 0.01, hi + 0.25 * w + 0.01].some((t) => !Number.isFinite(g(t)));
+    if (!guard) return all;
+  } catch {
+    return all;
+  }
+  const inside = all.filter((t) => t > lo && t < hi);
+  if (inside.length >= 40) return inside;
+  return Array.from({ length: 60 }, (_, k) => lo + ((hi - lo) * (k + 0.5)) / 60);
 }
 
 /** Compare a comment formula with the code function under it (same role), variable by position. */
@@ -510,6 +605,7 @@ function mismatchFinding(d: Read, fwd: Read, v: Verdict, text: string, language:
 /** Replacement text for a derivative whose body is one expression in the input form. */
 function derivativeFix(d: Read, v: Verdict, text: string, language: Language): Finding['fix'] | undefined {
   if (d.origin !== 'code' || v.argument !== 'input' || v.swapped) return undefined;
+  if (hasSymbol(v.expected.toString(), BATCH_SYMBOL)) return undefined; // the batch size has no name in the code
   const fn = d.code!.fn;
   const el = emitLanguageFor(language, text);
   if (!el) return undefined;

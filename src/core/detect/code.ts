@@ -146,7 +146,8 @@ function parseParams(toks: Token[], style: 'python' | 'c' | 'go' | 'typed' | 'pl
     if (colon >= 0) name = head.slice(0, colon).filter((t) => t.kind === 'id').pop()?.text;
     else if (style === 'go') name = head.find((t) => t.kind === 'id')?.text;
     else {
-      const ids = head.filter((t) => t.kind === 'id' && !['const', 'mut', 'ref', 'in', 'out', 'inout', 'let', 'var', 'val', 'restrict', '__restrict__'].includes(t.text));
+      const all = head.filter((t) => t.kind === 'id');
+      const ids = all.length > 1 ? all.filter((t) => !['const', 'mut', 'ref', 'in', 'out', 'inout', 'let', 'var', 'val', 'restrict', '__restrict__'].includes(t.text)) : all;
       name = ids[ids.length - 1]?.text;
     }
     if (name === undefined) continue;
@@ -388,7 +389,7 @@ function readPython(tokens: Token[]): CodeModel {
     const endLine = lines[b.next - 1]?.line ?? l.line;
     const last = lines[b.next - 1]!;
     const lastTok = last.toks[last.toks.length - 1]!;
-    const bodyTokens = tokens.filter((t) => t.start >= l.toks[0]!.start && t.end <= lastTok.end);
+    const bodyTokens = sliceByOffsets(tokens, l.toks[0]!.start, lastTok.end);
     functions.push({
       name, params, body: b.stmts, bodyTokens, start: (lines[k]!.toks[0]!).start, end: lastTok.end, line: lines[k]!.line,
       endLine, decorators, elementwise: false, ...(className ? { className } : {}),
@@ -485,6 +486,7 @@ function readBraces(tokens: Token[], info: LanguageInfo): CodeModel {
       if (sig[q]?.text === '{' && partner[q]! > 0) classes.push({ name, open: q, close: partner[q]! });
     }
   }
+  const constantCandidates: { name: string; value: number; line: number; at: number }[] = [];
   const classAt = (pos: number): string | undefined => {
     let best: { name: string; open: number; close: number } | undefined;
     for (const c of classes) if (c.open < pos && pos < c.close && (!best || c.open > best.open)) best = c;
@@ -492,9 +494,7 @@ function readBraces(tokens: Token[], info: LanguageInfo): CodeModel {
   };
   const bodyRange = (open: number): Token[] => {
     const close = partner[open]!;
-    const a = sig[open]!.start;
-    const b = sig[close]!.end;
-    return toks.filter((t) => t.start > a && t.end < b);
+    return sliceByOffsets(toks, sig[open]!.end, sig[close]!.start);
   };
   const pushFn = (name: string, headerStart: number, paramsOpen: number, bodyOpen: number | undefined, exprToks?: Token[], endTok?: Token): void => {
     const pclose = partner[paramsOpen]!;
@@ -517,7 +517,13 @@ function readBraces(tokens: Token[], info: LanguageInfo): CodeModel {
       body = [{ k: 'return', expr: bodyTokens.filter((t) => t.kind !== 'nl'), line: startTok.line }];
       end = endTok ?? bodyTokens[bodyTokens.length - 1] ?? startTok;
     }
-    const className = classAt(headerStart);
+    let className = classAt(headerStart);
+    // Go methods: func (l *Leaky) Backward(…) — the receiver's type is the class
+    if (lang === 'go' && sig[headerStart]?.text === 'func' && sig[headerStart + 1]?.text === '(') {
+      const rc = partner[headerStart + 1]!;
+      const typeTok = rc > 0 ? sig.slice(headerStart + 2, rc).filter((t) => t.kind === 'id').pop() : undefined;
+      if (typeTok) className = typeTok.text;
+    }
     const elementwise = bodyTokens.some((t) => t.text === 'threadIdx' || t.text === 'blockIdx' || t.text === 'get_global_id' || t.text === '__global__')
       || sig.slice(Math.max(0, headerStart - 3), headerStart + 1).some((t) => t.text === '__global__' || t.text === 'kernel');
     // void functions writing to an output array / pointer parameter
@@ -565,8 +571,7 @@ function readBraces(tokens: Token[], info: LanguageInfo): CodeModel {
       let q = k + 1;
       while (q < sig.length && sig[q]!.text !== ';' && sig[q]!.line === t.line && sig[q]!.text !== ',') valToks.push(sig[q++]!);
       const v = numberValue(valToks);
-      const depthOk = !classesOrFunctionsAround(k);
-      if (v !== undefined && depthOk) constants.push({ name, value: v, line: t.line });
+      if (v !== undefined) constantCandidates.push({ name, value: v, line: t.line, at: t.start });
       // arrow functions / lambdas / R functions: name = (x) => …, name = x => …, name <- function(x) …
       const first = sig[k + 1];
       if (first?.text === 'function' && sig[k + 2]?.text === '(') {
@@ -649,6 +654,9 @@ function readBraces(tokens: Token[], info: LanguageInfo): CodeModel {
       if (p.text === ';' || p.text === '{' || p.text === '}' || p.text === ')' || p.text === '#' || p.line !== nameTok.line) break;
       headerStart--;
     }
+    if (lang === 'go' && sig[headerStart - 1]?.text === ')' && partner[headerStart - 1]! > 0 && sig[partner[headerStart - 1]! - 1]?.text === 'func') {
+      headerStart = partner[headerStart - 1]! - 1;
+    }
     if (nameTok.text === 'function' && sig[open - 2]?.text === '=') nameTok = sig[open - 3]!;
     pushFn(nameTok.text, headerStart, open, k);
   }
@@ -667,11 +675,12 @@ function readBraces(tokens: Token[], info: LanguageInfo): CodeModel {
     if (expr.length > 0) pushFn(nameTok.text, k, open, undefined, expr, expr[expr.length - 1]);
   }
   functions.sort((a, b) => a.start - b.start);
-
-  function classesOrFunctionsAround(k: number): boolean {
-    // true when token k lies inside any function body seen so far
-    for (const f of functions) if (f.start <= sig[k]!.start && sig[k]!.end <= f.end) return true;
-    return false;
+  // constants are the assignments outside every function (one sweep over both sorted lists)
+  let fi = 0;
+  let maxEnd = -1;
+  for (const c of constantCandidates) {
+    while (fi < functions.length && functions[fi]!.start <= c.at) { maxEnd = Math.max(maxEnd, functions[fi]!.end); fi++; }
+    if (maxEnd < c.at) constants.push({ name: c.name, value: c.value, line: c.line });
   }
   function pushSingleParamFn(name: string, headerStart: number, param: Token, bodyOpen: number | undefined, expr?: Token[]): void {
     const startTok = sig[headerStart]!;
@@ -1089,6 +1098,7 @@ function readKeywordBlocks(tokens: Token[], info: LanguageInfo): CodeModel {
   };
 
   // top level: find functions
+  const matlabEnds = fam === 'matlab' && hasEndedFunctions(lines, 0);
   let i = 0;
   const top: Token[] = [];
   while (i < lines.length) {
@@ -1162,7 +1172,7 @@ function readKeywordBlocks(tokens: Token[], info: LanguageInfo): CodeModel {
         let q = i;
         for (; q < lines.length; q++) {
           const lq = lines[q]!;
-          if (q > i && fam === 'matlab' && word(lq.toks[0]) === 'function' && depth <= 1 && !hasEndedFunctions(lines, i)) { break; }
+          if (q > i && fam === 'matlab' && word(lq.toks[0]) === 'function' && depth <= 1 && !matlabEnds) { break; }
           if (fam === 'lua') depth += blockDelta(lq.toks);
           else if (isOpener(lq) || q === i) depth++;
           else if (isEnd(lq)) depth--;
@@ -1171,7 +1181,8 @@ function readKeywordBlocks(tokens: Token[], info: LanguageInfo): CodeModel {
         const endIdx = Math.min(q, lines.length - 1);
         const bodyLines = lines.slice(i + 1, q);
         const bodyIndexStart = i + 1;
-        const r = readStmts(bodyIndexStart, (x) => lines.indexOf(x) >= q);
+        const stopStart = q < lines.length ? lines[q]!.toks[0]!.start : Infinity;
+        const r = readStmts(bodyIndexStart, (x) => x.toks[0]!.start >= stopStart);
         const lastLine = lines[endIdx]!;
         const lastTok = lastLine.toks[lastLine.toks.length - 1]!;
         const bodyTokens = bodyLines.flatMap((b) => b.toks);
@@ -1249,4 +1260,15 @@ function collectIndexedTargets(stmts: Stmt[], into: Set<string>): void {
     else if (s.k === 'loop') collectIndexedTargets(s.body, into);
     else if (s.k === 'if') for (const b of s.branches) collectIndexedTargets(b.body, into);
   }
+}
+
+/** Tokens with start ≥ a and end ≤ b (tokens are sorted by offset): two binary searches. */
+export function sliceByOffsets(tokens: Token[], a: number, b: number): Token[] {
+  let lo = 0;
+  let hi = tokens.length;
+  while (lo < hi) { const m = (lo + hi) >> 1; if (tokens[m]!.start < a) lo = m + 1; else hi = m; }
+  const from = lo;
+  hi = tokens.length;
+  while (lo < hi) { const m = (lo + hi) >> 1; if (tokens[m]!.end <= b) lo = m + 1; else hi = m; }
+  return tokens.slice(from, lo);
 }

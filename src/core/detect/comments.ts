@@ -227,6 +227,8 @@ function findDefinition(text: string, from: number): DefMatch | undefined {
       if (head) {
         const rhsStart = i + 1;
         const rhsEnd = rhsStop(text, rhsStart);
+        // `derivative: d/dx f(x) = …` — the formula is the `=` one that follows
+        if (isColon && text[rhsEnd] === '=') { i++; continue; }
         const lhsStart = lhsFrom + head.offset;
         return { head: head.head, lhsStart, rhsStart, rhsEnd, next: Math.max(rhsEnd, rhsStart) };
       }
@@ -239,14 +241,19 @@ function findDefinition(text: string, from: number): DefMatch | undefined {
 /** The left-hand side begins after the last `:` , `;` or sentence break before it. */
 function segmentStart(text: string, from: number, end: number): number {
   let depth = 0;
-  for (let k = end - 1; k >= from; k--) {
+  // A left-hand side is short (a head is at most ~40 characters): looking back further than
+  // MAX_LHS would make lines with many `=` quadratic.
+  const stop = Math.max(from, end - MAX_LHS);
+  for (let k = end - 1; k >= stop; k--) {
     const c = text[k]!;
     if (c === ')' || c === ']') depth++;
     else if (c === '(' || c === '[') { if (depth === 0) return k + 1; depth--; }
     else if (depth === 0 && (c === ':' || c === ';' || (c === ',' && text[k + 1] === ' ') || (c === '.' && text[k + 1] === ' '))) return k + 1;
   }
-  return from;
+  return stop;
 }
+
+const MAX_LHS = 80;
 
 /** Which part of a left-hand side names the formula. */
 function matchHead(lhsRaw: string): { head: Head; offset: number } | undefined {
@@ -536,7 +543,9 @@ function lastTopLevel(s: string, ch: string): number {
 
 function isCondition(c: string): boolean {
   if (!c) return false;
-  return /[<>≤≥≠]|==|!=/.test(c) && !/[A-Za-z]{4,}\s+[A-Za-z]{4,}/.test(c);
+  // The lookbehind starts a match only at the first letter of a run (same matches, linear time: without
+  // it a 4,000-letter run cost ~180 ms per comment line, found by the ReDoS test).
+  return /[<>≤≥≠]|==|!=/.test(c) && !/(?<![A-Za-z])[A-Za-z]{4,}\s+[A-Za-z]{4,}/.test(c);
 }
 
 function normaliseCondition(c: string): string {

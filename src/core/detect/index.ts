@@ -7,14 +7,14 @@
  * Limits (file size, line length, formulas per file, time per file) are checked on the way and what
  * was skipped is reported in `skipped`.
  */
-import { LIMITS } from '../limits';
+import { LIMITS, type Limits } from '../limits';
 import type { FormulaRole, FoundFormula, Language, Span } from '../types';
 import { parseFormula } from '../expr/parse';
 import { languageInfo, type LanguageInfo } from './languages';
 import { lex, type Lexed, type Token } from './lexer';
 import { scanComments, type CommentFormula, type CommentScan } from './comments';
 import { parseNumber, readCode, type CodeModel, type FunctionDef } from './code';
-import { reduce, render, type RenderContext } from './stmt';
+import { reduce, type RenderContext } from './stmt';
 import { LOSS_WORDS, OUTPUT_NAMES, UPSTREAM_NAMES } from './words';
 
 export { languageInfo } from './languages';
@@ -22,7 +22,7 @@ export { languageInfo } from './languages';
 export interface DetectOptions {
   languageId?: string;
   fileName?: string;
-  limits?: Partial<typeof LIMITS>;
+  limits?: Partial<Limits>;
 }
 
 export interface CodeFormula {
@@ -152,7 +152,7 @@ function functionFormula(
   collectLoopVars(fn.body, indexNames);
   const env = new Map<string, string>();
   const ctx: RenderContext = {
-    elementwise: fn.elementwise,
+    elementwise: fn.elementwise || fn.body.some((s) => s.k === 'loop'),
     indexNames,
     dialect: { family: info.family === 'c' ? (info.language === 'rust' ? 'rust' : 'c') : info.family, lastExpressionValue: ['julia', 'r'].includes(info.family) || info.language === 'rust' || info.language === 'kotlin' },
   };
@@ -217,7 +217,10 @@ function functionFormula(
   const bound: Record<string, number> = {};
   for (const p of params) {
     if (p.name === variable || !p.default) continue;
-    const v = p.default.length === 1 ? parseNumber(p.default[0]!.text) : p.default.length === 2 && p.default[0]!.text === '-' ? -(parseNumber(p.default[1]!.text) ?? NaN) : undefined;
+    const only = p.default.length === 1 ? p.default[0]! : undefined;
+    // a default that names a file constant (`slope=NEG_SLOPE`) takes the constant's value
+    const v = only && only.kind === 'id' && only.text in _constants ? _constants[only.text]
+      : only ? parseNumber(only.text) : p.default.length === 2 && p.default[0]!.text === '-' ? -(parseNumber(p.default[1]!.text) ?? NaN) : undefined;
     if (v !== undefined && Number.isFinite(v)) bound[p.name] = v;
   }
   // numeric literal defaults with casts (T(0.01)) are handled by the renderer; ignore others
@@ -286,6 +289,14 @@ function linkSavedValues(formulas: CodeFormula[]): void {
     const bwd = list.find((f) => f.role === 'derivative');
     if (!fwd || !bwd) continue;
     if (fwd.role === 'derivative') fwd.role = 'activation';
+    // Of the attributes the backward reads (self.x, self.beta…), its variable is the one the forward
+    // stored from its input or output; the others are parameters set elsewhere (__init__).
+    const prefix = /^(self|ctx|this)_/.exec(bwd.variable ?? '')?.[1];
+    if (prefix) {
+      const attrs = [...bwd.text.matchAll(/\b(?:self|ctx|this)_([A-Za-z_]\w*)/g)].map((m) => m[1]!);
+      const saved = attrs.find((a) => storedValue(fwd.fn.bodyTokens, a) !== undefined);
+      if (saved) bwd.variable = `${prefix}_${saved}`;
+    }
     const v = bwd.variable ?? '';
     const savedAttr = /^(self|ctx|this)_(.+)$/.exec(v)?.[2];
     const fwdParams = fwd.fn.params.filter((p) => !SKIP_PARAMS.has(p.name)).map((p) => p.name);
@@ -334,10 +345,21 @@ export function readable(text: string, language: Language, variable: string | un
 
 /** Formulas in a source file, in order of position. */
 export function findFormulas(text: string, opts: DetectOptions = {}): FoundFormula[] {
+  return scanText(text, opts).formulas;
+}
+
+/** `findFormulas` plus what was skipped (limits, budgets), for adapters that report it. */
+export function scanText(text: string, opts: DetectOptions = {}): { formulas: FoundFormula[]; skipped: string[] } {
   const limits = { ...LIMITS, ...opts.limits };
   const m = analyzeSource(text, opts);
+  const skipped = [...m.skipped];
   const out: FoundFormula[] = [];
+  // Each list is in position order, so reading at most maxFormulasPerFile of each keeps the same first
+  // maxFormulasPerFile overall; the time budget bounds the engine reads (one parse per candidate).
+  const started = Date.now();
+  const enough = (read: number): boolean => read >= limits.maxFormulasPerFile || Date.now() - started > limits.fileBudgetMs;
   for (const c of m.commentFormulas) {
+    if (enough(out.length)) break;
     const language: Language = c.text.includes('\\') ? 'latex' : 'plain';
     if (!readable(c.text, language, c.variable, {})) continue;
     const f: FoundFormula = { span: c.span, text: c.text, language, origin: 'comment', role: c.role };
@@ -347,7 +369,9 @@ export function findFormulas(text: string, opts: DetectOptions = {}): FoundFormu
     if (c.forwardName) f.forwardName = c.forwardName;
     out.push(f);
   }
+  const commentCount = out.length;
   for (const c of m.codeFormulas) {
+    if (enough(out.length - commentCount)) break;
     const params = { ...m.constants, ...c.params };
     for (const u of c.upstream) params[u] = 1;
     if (!readable(c.text, m.info.language, c.variable, params)) continue;
@@ -358,8 +382,12 @@ export function findFormulas(text: string, opts: DetectOptions = {}): FoundFormu
     if (Object.keys(p).length > 0) f.params = p;
     out.push(f);
   }
+  if (Date.now() - started > limits.fileBudgetMs) skipped.push(`time budget of ${limits.fileBudgetMs} ms per file ran out: later candidates not read`);
   out.sort((a, b) => a.span.start - b.span.start);
-  return out.slice(0, limits.maxFormulasPerFile);
+  if (out.length > limits.maxFormulasPerFile) {
+    skipped.push(`more than ${limits.maxFormulasPerFile} formulas: the rest are not reported`);
+  }
+  return { formulas: out.slice(0, limits.maxFormulasPerFile), skipped };
 }
 
 export function usedParams(text: string, params: Record<string, number>): Record<string, number> {

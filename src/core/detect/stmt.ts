@@ -37,6 +37,28 @@ const LOGIC: Record<string, string> = {
   '.false.': ' false ',
 };
 
+/** The symbol a batch mean divides by (bound to sample sizes when comparing). */
+export const BATCH_SYMBOL = 'N_batch';
+const BATCH_METHODS: Record<string, 'mean' | 'sum' | 'N'> = { mean: 'mean', sum: 'sum', numel: 'N', nelement: 'N', size: 'N', shape: 'N' };
+const BATCH_CALLS: Record<string, 'mean' | 'sum' | 'N'> = { mean: 'mean', sum: 'sum', len: 'N', numel: 'N', length: 'N', nrow: 'N', size: 'N' };
+
+/** Remove the last operand (identifier, number or bracketed group) from rendered text. */
+function dropLastOperand(out: string): string {
+  let k = out.length;
+  while (k > 0 && out[k - 1] === ' ') k--;
+  if (out[k - 1] === ')') {
+    let depth = 0;
+    for (let q = k - 1; q >= 0; q--) {
+      if (out[q] === ')') depth++;
+      else if (out[q] === '(') { depth--; if (depth === 0) return out.slice(0, q); }
+    }
+    return out;
+  }
+  let q = k;
+  while (q > 0 && /[A-Za-z0-9_.\u0370-\u03ff]/.test(out[q - 1]!)) q--;
+  return out.slice(0, q);
+}
+
 const FILLS: Record<string, string> = { ones: '1', zeros: '0', ones_like: '1', zeros_like: '0', onesLike: '1', zerosLike: '0' };
 const DROP_METHODS = new Set(['clone', 'copy', 'detach', 'contiguous', 'float', 'double', 'item', 'to', 'type', 'astype', 'cpu', 'cuda', 'numpy', 'unwrap', 'into', 'as_', 'type_as']);
 const CASTS = new Set(['float', 'double', 'float64', 'float32', 'f32', 'f64', 'real', 'dble', 'Float64', 'Float32', 'as.numeric', 'Number', 'static_cast', 'half', '__float2half', '__half2float', 'T']);
@@ -77,6 +99,37 @@ export function render(toks: Token[], env: Map<string, string>, ctx: RenderConte
       out += sep + piece;
       prev = member;
       continue;
+    } else if (t.kind === 'op' && t.text === '.' && next?.kind === 'id' && BATCH_METHODS[next.text] !== undefined && (toks[i + 2]?.text === '(' || BATCH_METHODS[next.text] === 'N')) {
+      // batch reductions: x.mean() → / N_batch, x.sum() → x, x.numel() / x.size → N_batch
+      const hasCall = toks[i + 2]?.text === '(';
+      const close = hasCall ? matchClose(toks, i + 2) : i + 1;
+      if (close > 0) {
+        const kind = BATCH_METHODS[next.text]!;
+        if (kind === 'N') {
+          // x.numel(): the whole `x.numel()` is the batch size; drop the receiver already written
+          out = dropLastOperand(out);
+          out += (out === '' || out.endsWith(' ') || out.endsWith('(') ? '' : ' ') + BATCH_SYMBOL;
+        } else if (kind === 'mean') out += ` / ${BATCH_SYMBOL}`;
+        prev = toks[close];
+        i = close;
+        // x.shape[0] / x.size(0)
+        if (toks[i + 1]?.text === '[') { const c2 = matchClose(toks, i + 1); if (c2 > 0) { prev = toks[c2]; i = c2; } }
+        continue;
+      }
+    } else if (t.kind === 'id' && BATCH_CALLS[t.text] !== undefined && next?.text === '(' && (prev === undefined || prev.text !== '.' || /^(np|numpy|torch|jnp|tf|math)$/.test(toks[i - 2]?.text ?? ''))) {
+      // np.mean(e) → (e) / N_batch, np.sum(e) → (e), len(x) → N_batch
+      const close = matchClose(toks, i + 1);
+      if (close > 0) {
+        out = out.replace(/(np|numpy|torch|jnp|tf|math)\s?\.\s?$/, '');
+        const inner = splitArgs(toks.slice(i + 2, close))[0] ?? [];
+        const kind = BATCH_CALLS[t.text]!;
+        const sp = out === '' || out.endsWith(' ') || out.endsWith('(') ? '' : ' ';
+        if (kind === 'N') out += sp + BATCH_SYMBOL;
+        else out += sp + `(${render(inner, env, ctx)})` + (kind === 'mean' ? ` / ${BATCH_SYMBOL}` : '');
+        prev = toks[close];
+        i = close;
+        continue;
+      }
     } else if (t.kind === 'op' && t.text === '.' && next?.kind === 'id' && DROP_METHODS.has(next.text) && toks[i + 2]?.text === '(' ) {
       // x.clone(), x.float(), y.astype(np.float32): drop the call
       const close = matchClose(toks, i + 2);
@@ -432,13 +485,12 @@ function ifExpression(toks: Token[], at: number, env: Map<string, string>, ctx: 
   const a = part(k);
   if (!a || toks[a.end + 1]?.text !== 'else') return undefined;
   const elseAt = a.end + 1;
-  let b: { toks: Token[]; end: number } | undefined;
   if (toks[elseAt + 1]?.text === 'if') {
     const nested = ifExpression(toks, elseAt + 1, env, ctx);
     if (!nested) return undefined;
     return { text: `((${render(cond, env, ctx)}) ? (${render(a.toks, env, ctx)}) : ${nested.text})`, end: nested.end };
   }
-  b = part(elseAt + 1);
+  const b = part(elseAt + 1);
   if (!b || a.toks.length === 0 || b.toks.length === 0) return undefined;
   return { text: `((${render(cond, env, ctx)}) ? (${render(a.toks, env, ctx)}) : (${render(b.toks, env, ctx)}))`, end: b.end };
 }

@@ -13,7 +13,7 @@ export const STOCK_FUNCTIONS: Readonly<Record<string, readonly [number, number]>
 /** Rewrites handled in normalize.ts (not stock functions themselves). */
 export const SPECIAL_FUNCTIONS = new Set([
   'pow', 'where', 'ifelse', 'merge', 'clamp', 'clip', 'clamp_min', 'clamp_max', 'square', 'rsqrt',
-  'reciprocal', 'log10', 'log2', 'exp2', 'cube', 'erfc',
+  'reciprocal', 'log10', 'log2', 'exp2', 'cube', 'erfc', 'neg', 'plus', 'minus', 'times', 'over', 'fma', 'saturate',
 ]);
 
 const ALIASES: Readonly<Record<string, string>> = {
@@ -32,6 +32,12 @@ const ALIASES: Readonly<Record<string, string>> = {
   powf: 'pow', powi: 'pow', power: 'pow', float_power: 'pow', __powf: 'pow', powl: 'pow',
   log10f: 'log10', log2f: 'log2', exp2f: 'exp2', erfcf: 'erfc',
   recip: 'reciprocal', clip_by_value: 'clip', clamp_: 'clamp', clip_: 'clip', select: 'where',
+  // tensor methods (x.neg(), x.mul(y)…), CUDA intrinsics, Kotlin coerce*, fused multiply-add
+  negative: 'neg', add: 'plus', sub: 'minus', subtract: 'minus', mul: 'times', multiply: 'times',
+  div: 'over', divide: 'over', true_divide: 'over', __fdividef: 'over', fdividef: 'over', __fdiv_rn: 'over',
+  __fmul_rn: 'times', __fadd_rn: 'plus', __fsub_rn: 'minus', __frcp_rn: 'reciprocal', rsqrtf: 'rsqrt',
+  __frsqrt_rn: 'rsqrt', __saturatef: 'saturate', fmaf: 'fma', __fmaf_rn: 'fma', mul_add: 'fma',
+  coerceatleast: 'clamp_min', coerceatmost: 'clamp_max', coercein: 'clamp',
 };
 
 /** Names that must never be called, even though mathjs knows them. */

@@ -32,7 +32,7 @@ export interface CatalogueEntry {
 const COMMON = 'common practice (PyTorch/TensorFlow default)';
 
 export const CATALOGUE: readonly CatalogueEntry[] = [
-  { name: 'sigmoid', aliases: ['logistic', 'expit', 'sigm', 'sigma_fn', 'logistic_sigmoid'], role: 'activation', args: ['x'], params: [], definition: '1 / (1 + exp(-x))', summary: 'logistic sigmoid σ(x) = 1/(1 + e^(−x))' },
+  { name: 'sigmoid', aliases: ['logistic', 'expit', 'sigm', 'sigma', 'sigma_fn', 'logistic_sigmoid'], role: 'activation', args: ['x'], params: [], definition: '1 / (1 + exp(-x))', summary: 'logistic sigmoid σ(x) = 1/(1 + e^(−x))' },
   { name: 'tanh', aliases: [], role: 'activation', args: ['x'], params: [], definition: 'tanh(x)', summary: 'hyperbolic tangent' },
   { name: 'relu', aliases: ['rectifier', 'relu_'], role: 'activation', args: ['x'], params: [], definition: 'max(x, 0)', summary: 'rectified linear unit max(x, 0)' },
   { name: 'relu6', aliases: [], role: 'activation', args: ['x'], params: [], definition: 'min(max(x, 0), 6)', summary: 'ReLU capped at 6 (Howard et al. 2017, MobileNets)' },

@@ -74,9 +74,11 @@ function print(n: MathNode, opts: DisplayOptions): string {
         return precOf(inner) >= 9 && !inner.type.startsWith('Function') ? `√${print(inner, opts)}` : `√(${print(inner, opts)})`;
       }
       if (name === 'exp' && a.length === 1) {
+        // Print the argument once (printing it twice doubles the work at every level of a tower).
         const inner = a[0] as MathNode;
         const s = print(inner, opts);
         if (s.length <= 14) return precOf(inner) >= 9 && inner.type !== 'FunctionNode' ? `e^${s}` : `e^(${s})`;
+        return `exp(${s})`;
       }
       return `${FUNCTION_NAMES[name] ?? name}(${a.map((x) => print(x, opts)).join(', ')})`;
     }

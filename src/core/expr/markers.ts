@@ -4,7 +4,7 @@
  * inside the engine: `unmark` turns them back into stock mathjs before anything leaves it.
  */
 import type { MathNode } from 'mathjs';
-import { add, args, children, div, fn, fnName, isFn, isNum, isOpNode, mul, neg, num, numValue, rebuild } from './nodes';
+import { add, args, children, div, fn, fnName, isFn, isNum, isOpNode, key, mul, neg, num, numValue, rebuild } from './nodes';
 
 export const MARKERS = new Set(['sigmoid', 'softplus']);
 
@@ -39,7 +39,7 @@ function onePlusExp(n: MathNode): MathNode | null {
 }
 
 function same(a: MathNode, b: MathNode): boolean {
-  return a.toString() === b.toString();
+  return key(a) === key(b);
 }
 
 /** Folds recognisable patterns into markers, bottom-up. */

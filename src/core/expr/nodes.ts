@@ -79,7 +79,7 @@ export function op(fnName: string, operands: MathNode[]): MathNode {
 }
 
 export function cond(c: MathNode, a: MathNode, b: MathNode): MathNode {
-  if (a.toString() === b.toString()) return a;
+  if (key(a) === key(b)) return a;
   return new math.ConditionalNode(c, a, b);
 }
 
@@ -150,28 +150,30 @@ export function pow(a: MathNode, b: MathNode): MathNode {
   return op('pow', [a, b]);
 }
 
-/** Does `n` contain the symbol `v`? */
-export function dependsOn(n: MathNode, v: string): boolean {
-  let found = false;
-  n.traverse((c) => {
-    if (!found && c.type === 'SymbolNode' && (c as AnyNode).name === v) {
-      // Function names are SymbolNodes inside FunctionNode.fn: traverse visits them; skip those.
-      found = true;
+const symbolSets = new WeakMap<MathNode, ReadonlySet<string>>();
+
+/** Symbols in `n` (not function names), cached per node: trees are never mutated in the engine. */
+function symbolsOf(n: MathNode): ReadonlySet<string> {
+  const hit = symbolSets.get(n);
+  if (hit) return hit;
+  let out: ReadonlySet<string>;
+  if (n.type === 'SymbolNode') out = new Set([(n as AnyNode).name as string]);
+  else {
+    const kids = children(n);
+    if (kids.length === 1) out = symbolsOf(kids[0] as MathNode);
+    else {
+      const set = new Set<string>();
+      for (const k of kids) for (const name of symbolsOf(k)) set.add(name);
+      out = set;
     }
-  });
-  if (!found) return false;
-  return dependsOnStrict(n, v);
+  }
+  symbolSets.set(n, out);
+  return out;
 }
 
-function dependsOnStrict(n: MathNode, v: string): boolean {
-  if (n.type === 'SymbolNode') return (n as AnyNode).name === v;
-  if (n.type === 'FunctionNode') return args(n).some((a) => dependsOnStrict(a, v));
-  if (n.type === 'ConditionalNode') {
-    const p = condParts(n);
-    return dependsOnStrict(p.c, v) || dependsOnStrict(p.a, v) || dependsOnStrict(p.b, v);
-  }
-  if (n.type === 'ParenthesisNode') return dependsOnStrict((n as AnyNode).content as MathNode, v);
-  return args(n).some((a) => dependsOnStrict(a, v));
+/** Does `n` contain the symbol `v`? */
+export function dependsOn(n: MathNode, v: string): boolean {
+  return symbolsOf(n).has(v);
 }
 
 /** Node count, stopping early at `cap`. */
@@ -245,7 +247,25 @@ export function tidy(n: MathNode): MathNode {
   return rebuild(n, kids.map(tidy));
 }
 
-/** Structural key (mathjs text of the node). */
+const keys = new WeakMap<MathNode, string>();
+
+/**
+ * Structural key, cached per node. Linear in the tree: mathjs `toString` re-prints children while
+ * placing parentheses, which was measured to take seconds on 24-deep exp towers.
+ */
 export function key(n: MathNode): string {
-  return n.toString();
+  const hit = keys.get(n);
+  if (hit !== undefined) return hit;
+  let k: string;
+  switch (n.type) {
+    case 'ConstantNode': k = `#${String((n as AnyNode).value)}`; break;
+    case 'SymbolNode': k = `$${(n as AnyNode).name as string}`; break;
+    case 'ParenthesisNode': k = key((n as AnyNode).content as MathNode); break;
+    case 'OperatorNode': k = `${opFn(n)}(${args(n).map(key).join(',')})`; break;
+    case 'FunctionNode': k = `@${fnName(n)}(${args(n).map(key).join(',')})`; break;
+    case 'ConditionalNode': { const p = condParts(n); k = `?(${key(p.c)},${key(p.a)},${key(p.b)})`; break; }
+    default: k = `!${n.type}:${n.toString()}`;
+  }
+  keys.set(n, k);
+  return k;
 }

@@ -9,10 +9,16 @@ import { math } from '../math';
 import { SPECIAL_FUNCTIONS, STOCK_FUNCTIONS, allKnownFunctionNames, resolveAlias, suggest } from './aliases';
 import type { CatalogueEntry } from './catalogue';
 import { catalogueNames, lookupFunction } from './catalogue';
-import { args, children, cond, div, fn, fnName, isSym, num, op, pow, rebuild, substitute, symName, tidy } from './nodes';
+import { args, children, cond, div, fn, fnName, isSym, mul, num, op, pow, rebuild, substitute, sym, symName, tidy } from './nodes';
 import type { Locator } from './whitelist';
 
 export const OMITTED = '__omitted';
+
+/** Greek parameter names: `alpha(…)` is a product, never a call. */
+const IMPLICIT_PRODUCT_NAMES = new Set([
+  'alpha', 'beta', 'gamma', 'delta', 'epsilon', 'zeta', 'eta', 'theta', 'kappa', 'lambda', 'mu', 'nu', 'xi',
+  'rho', 'tau', 'chi', 'psi', 'omega',
+]);
 
 export interface NormalizeContext {
   locate: Locator;
@@ -102,6 +108,15 @@ function special(name: string, a: MathNode[], ctx: NormalizeContext, written: st
     case 'log2': need(1, 1); return div(fn('log', [a0]), fn('log', [num(2)]));
     case 'exp2': need(1, 1); return pow(num(2), a0);
     case 'erfc': need(1, 1); return op('subtract', [num(1), fn('erf', [a0])]);
+    case 'neg': need(1, 1); return op('unaryMinus', [a0]);
+    case 'plus': need(2, 2); return op('add', [a0, a1]);
+    case 'minus': need(2, 2); return op('subtract', [a0, a1]);
+    case 'times': need(2, 2); return op('multiply', [a0, a1]);
+    case 'over': need(2, 2); return op('divide', [a0, a1]);
+    // fma(a, b, c) = a·b + c (C, CUDA, Rust a.mul_add(b, c))
+    case 'fma': need(3, 3); return op('add', [op('multiply', [a0, a1]), a2]);
+    // CUDA __saturatef(x) = clamp(x, 0, 1)
+    case 'saturate': need(1, 1); return fn('min', [fn('max', [a0, num(0)]), num(1)]);
     case 'where': case 'ifelse': need(3, 3); return cond(a0, a1, a2);
     // Fortran merge(tsource, fsource, mask)
     case 'merge': need(3, 3); return cond(a2, a0, a1);
@@ -152,6 +167,11 @@ export function normalize(node: MathNode, ctx: NormalizeContext): MathNode {
     if (SPECIAL_FUNCTIONS.has(name)) return tidy(special(name, kids, ctx, written));
     const entry = lookupFunction(name) ?? lookupFunction(written);
     if (entry) return expandCatalogue(entry, written, kids, ctx);
+    // α(eˣ − 1), k(x + 1): a parameter-like name before brackets is a product, as in maths notation.
+    if (kids.length === 1 && (written.length === 1 || IMPLICIT_PRODUCT_NAMES.has(written)) && !(lookupFunction(written))) {
+      ctx.notes.add(`Read ${written}(…) as the product ${written}·(…)`);
+      return mul(sym(written), kids[0] as MathNode);
+    }
     const hint = suggest(written, allKnownFunctionNames(catalogueNames()));
     if (name === 'softmax' || name === 'log_softmax' || name === 'logsoftmax') {
       throw new SlopewiseError('unknown-function', `${written} is a vector function; the engine reads scalar formulas`, ctx.locate(written, true));
@@ -173,3 +193,26 @@ export function normalize(node: MathNode, ctx: NormalizeContext): MathNode {
   throw new SlopewiseError('not-allowed', `${n.type} is not allowed in a formula`);
 }
 
+
+const BOOLEAN_OPS = new Set(['smaller', 'smallerEq', 'larger', 'largerEq', 'equal', 'unequal', 'and', 'or', 'not']);
+const LOGIC_OPS = new Set(['and', 'or', 'not']);
+
+/**
+ * Comparisons used as numbers (`x * (x > 0)`, MATLAB/NumPy style) become `(x > 0 ? 1 : 0)`, so every
+ * canonical expression evaluates to a number in stock mathjs, never to a boolean.
+ */
+export function booleansAsNumbers(node: MathNode, context: 'value' | 'condition' = 'value'): MathNode {
+  if (node.type === 'ConditionalNode') {
+    const [c, a, b] = children(node) as [MathNode, MathNode, MathNode];
+    return cond(booleansAsNumbers(c, 'condition'), booleansAsNumbers(a), booleansAsNumbers(b));
+  }
+  if (node.type === 'OperatorNode' && BOOLEAN_OPS.has((node as unknown as { fn: string }).fn)) {
+    const f = (node as unknown as { fn: string }).fn;
+    const kids = args(node).map((k) => booleansAsNumbers(k, LOGIC_OPS.has(f) ? 'condition' : 'value'));
+    const rebuilt = op(f, kids);
+    return context === 'condition' ? rebuilt : cond(rebuilt, num(1), num(0));
+  }
+  const kids = children(node);
+  if (kids.length === 0) return node;
+  return rebuild(node, kids.map((k) => booleansAsNumbers(k)));
+}

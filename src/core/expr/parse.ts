@@ -10,7 +10,7 @@ import { math } from '../math';
 import type { Formula, Language, ParameterSource, ParseOptions } from '../types';
 import { CATALOGUE } from './catalogue';
 import { countNodes, freeSymbols, substitute, sym, tidy } from './nodes';
-import { OMITTED, normalize } from './normalize';
+import { OMITTED, booleansAsNumbers, normalize } from './normalize';
 import type { NormalizeContext } from './normalize';
 import { mapBack } from './notation/text';
 import { toCanonicalText } from './notation';
@@ -104,7 +104,7 @@ export function parseFormula(input: string, opts: ParseOptions = {}): Formula {
   const ctx: NormalizeContext = { locate, notes: new Set(notation.notes), paramDefaults: new Map(), used: new Set(), prefixes: notation.prefixes };
   let node: MathNode;
   try {
-    node = tidy(normalize(parsed, ctx));
+    node = booleansAsNumbers(tidy(normalize(parsed, ctx)));
   } catch (e) {
     if (isSlopewiseError(e) || !(e instanceof RangeError)) throw e;
     throw new SlopewiseError('too-deep', 'Formula is nested too deeply to read', undefined);

@@ -74,3 +74,38 @@ export function viewRange(values: number[]): [number, number] {
   const m = (hi - lo) * 0.08;
   return [lo - m, hi + m];
 }
+
+/**
+ * Splits segments at jumps: where two neighbouring samples differ by more than `threshold` and
+ * bisecting between them keeps the gap open (a discontinuity such as f″ of softsign at 0), the line is
+ * broken instead of drawing a vertical stroke that looks like part of the curve. A steep but
+ * continuous stretch closes under bisection and stays joined.
+ */
+export function splitJumps(fn: ScalarFn, samples: Sample[], threshold: number): Sample[] {
+  if (!(threshold > 0) || samples.length < 2) return samples;
+  const out: Sample[] = [];
+  let shift = 0;
+  for (let i = 0; i < samples.length; i++) {
+    const s = samples[i]!;
+    const prev = samples[i - 1];
+    if (prev && prev.segment === s.segment && Math.abs(s.y - prev.y) > threshold && isJump(fn, prev, s)) shift++;
+    out.push(shift ? { ...s, segment: s.segment + shift } : s);
+  }
+  return out;
+}
+
+function isJump(fn: ScalarFn, a: Sample, b: Sample): boolean {
+  let lo = a;
+  let hi = b;
+  const gap = Math.abs(b.y - a.y);
+  for (let k = 0; k < 30; k++) {
+    const x = (lo.x + hi.x) / 2;
+    if (x === lo.x || x === hi.x) break;
+    const y = safeEval(fn, x);
+    if (!Number.isFinite(y)) return true;
+    // Keep the half that still holds most of the gap.
+    if (Math.abs(y - lo.y) > Math.abs(hi.y - y)) hi = { x, y, segment: hi.segment };
+    else lo = { x, y, segment: lo.segment };
+  }
+  return Math.abs(hi.y - lo.y) > 0.5 * gap;
+}

@@ -10,7 +10,7 @@
  * (3) assemble `PlotData`; the template is static.
  */
 import type { FloatType, RangeInterval, ScalarFn } from '../types';
-import { grid, sampleCurve, viewRange } from './sample';
+import { grid, sampleCurve, splitJumps, viewRange, type Sample } from './sample';
 
 export const LAYERS = ['f', 'f′', 'f″'] as const;
 export type LayerName = (typeof LAYERS)[number];
@@ -96,15 +96,25 @@ export function buildPlotData(curves: CurveInput[], opts: PlotOptions): PlotData
   const kinks: KinkRow[] = [];
   const breakdown: BreakdownRow[] = [];
   const forRange: number[] = [];
+  // (1) sample, then (2) break at jumps larger than a tenth of the visible y range (bisection tells a
+  // jump from a steep continuous stretch, so the threshold can be low).
+  const sampled: { c: CurveInput; layer: LayerName; fn: ScalarFn; samples: Sample[] }[] = [];
   for (const c of curves) {
     const fns: [LayerName, ScalarFn | undefined][] = [['f', c.f], ['f′', c.df], ['f″', c.d2f]];
     for (const [layer, fn] of fns) {
       if (!fn) continue;
-      for (const s of sampleCurve(fn, xs)) {
-        series.push({ curve: c.label, layer, x: s.x, y: s.y, segment: s.segment, key: `${c.label}\u0001${layer}\u0001${s.segment}` });
-        if (layer !== 'f″') forRange.push(s.y);
-      }
+      const samples = sampleCurve(fn, xs);
+      sampled.push({ c, layer, fn, samples });
+      if (layer !== 'f″') for (const p of samples) forRange.push(p.y);
     }
+  }
+  const [yMin, yMax] = viewRange(forRange);
+  for (const { c, layer, fn, samples } of sampled) {
+    for (const p of splitJumps(fn, samples, (yMax - yMin) / 10)) {
+      series.push({ curve: c.label, layer, x: p.x, y: p.y, segment: p.segment, key: `${c.label}\u0001${layer}\u0001${p.segment}` });
+    }
+  }
+  for (const c of curves) {
     for (const s of c.saturation ?? []) {
       if (s.kind !== 'saturating' && s.kind !== 'dead') continue;
       const clipped = clipInterval(s, opts.domain);
@@ -126,7 +136,6 @@ export function buildPlotData(curves: CurveInput[], opts: PlotOptions): PlotData
       }
     }
   }
-  const [yMin, yMax] = viewRange(forRange);
   return { series, ranges, kinks, breakdown, view: { xMin: a, xMax: b, yMin, yMax }, variable: opts.variable ?? 'x' };
 }
 
@@ -196,11 +205,13 @@ export function plotTemplate(): { [k: string]: Json } {
         encoding: {
           x,
           y,
-          color: { field: 'curve', type: 'nominal', title: 'formula', legend: { orient: 'bottom', labelLimit: 320, symbolType: 'stroke' } },
+          // Colours in the order the formulas were added (the webview's chips use the same order); the
+          // legends are the webview's own HTML, which wraps in a narrow panel where vega's would be cut.
+          color: { field: 'curve', type: 'nominal', title: 'formula', sort: null, legend: null },
           strokeDash: {
             field: 'layer', type: 'nominal', title: 'curve',
             scale: { domain: [...LAYERS], range: [[1, 0], [7, 4], [2, 3]] },
-            legend: { orient: 'bottom', symbolType: 'stroke' },
+            legend: null,
           },
           detail: { field: 'key', type: 'nominal' },
           order: { field: 'x', type: 'quantitative' },
@@ -213,7 +224,7 @@ export function plotTemplate(): { [k: string]: Json } {
         encoding: {
           x,
           y: { ...y },
-          color: { field: 'curve', type: 'nominal', title: 'formula' },
+          color: { field: 'curve', type: 'nominal', title: 'formula', sort: null, legend: null },
           tooltip: [{ field: 'curve', type: 'nominal', title: 'kink of' }, { field: 'x', type: 'quantitative', format: '.4~g' }],
         },
       },

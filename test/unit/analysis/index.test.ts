@@ -42,6 +42,13 @@ describe('analysis: analyzeFormula contract', () => {
     assert.equal(a.skipped.length, ANALYSIS_PARTS.length);
     assert.match(a.skipped[0]?.reason ?? '', /no value for a/);
   });
+  it('skips the parts that would start after the time budget is spent, and says so', () => {
+    const { formula: f, derivs } = formula(SIGMOID);
+    const a = analyzeFormula(f, derivs, { budgetMs: 0 });
+    assert.equal(a.floatLimits, undefined);
+    assert.equal(a.skipped.length, ANALYSIS_PARTS.length);
+    assert.match(a.skipped[0]?.reason ?? '', /time budget/);
+  });
   it('uses the given threshold and domain, and refuses nonsense options', () => {
     const { formula: f, derivs } = formula(SIGMOID);
     const a = analyzeFormula(f, derivs, { saturationThreshold: 0.1, domain: [-20, 5], parts: ['saturation', 'floatLimits'], types: ['float16'] });

@@ -3,6 +3,10 @@ import { analyzeFormula } from '../../../src/core/analysis';
 import { math } from '../../../src/core/math';
 import { formula, SIGMOID, RELU, ELU, SELU, SOFTSIGN, HARDTANH, GELU_TANH, SWISH } from './helpers';
 
+// algebrite ships no types.
+// eslint-disable-next-line @typescript-eslint/no-require-imports
+const Algebrite = require('algebrite') as { run(s: string): string };
+
 function inOutput(expr: string, opts: { derivative?: string; params?: Record<string, number> } = {}): string | null | undefined {
   const { formula: f, derivs } = formula(expr, opts);
   return analyzeFormula(f, derivs, { parts: ['derivativeInOutput'] }).derivativeInOutput;
@@ -55,6 +59,18 @@ describe('analysis: derivative in terms of the output', () => {
     const t = inOutput(SOFTSIGN.f, { derivative: SOFTSIGN.d });
     assert.ok(t);
     agrees(t as string, (x) => x / (1 + Math.abs(x)), (x) => 1 / (1 + Math.abs(x)) ** 2);
+  });
+  it('the forms found agree with derivatives taken by the independent CAS algebrite (npm)', () => {
+    // algebrite differentiates f itself; our form in y, with y := f(x), must equal it.
+    for (const f of ['1/(1+exp(-x))', 'tanh(x)', 'log(1+exp(x))', 'exp(x)']) {
+      const g = inOutput(f);
+      assert.ok(g, f);
+      const diff = `d(${f},x) - (${(g as string).replace(/\by\b/g, `(${f})`)})`;
+      for (const x0 of ['-3/2', '1/3', '5/2']) {
+        const v = parseFloat(Algebrite.run(`float(subst(${x0}, x, ${diff}))`));
+        assert.ok(Math.abs(v) < 1e-5, `${f} at ${x0}: ${v}`);
+      }
+    }
   });
   it('none for GELU, swish and x² (y does not determine x, or no such form)', () => {
     assert.equal(inOutput(GELU_TANH), null);

@@ -52,6 +52,19 @@ describe('analysis: saturating and dead intervals', () => {
     const z = formula('x > 0 ? x : a * x', { derivative: 'x > 0 ? 1 : a', params: { a: 0 } });
     assert.deepEqual(analyzeFormula(z.formula, z.derivs, { parts: ['saturation'] }).saturation, [{ from: null, to: 0, kind: 'dead' }]);
   });
+  it('sin saturates near each extremum, |cos x| < t ⇔ |x − (k + 1/2)π| < asin(t); the unresolved tail is left out', () => {
+    const { formula: f, derivs } = formula('sin(x)');
+    const a = analyzeFormula(f, derivs, { parts: ['saturation'] });
+    const w = Math.asin(0.01);
+    assert.ok((a.saturation?.length ?? 0) >= 12);
+    for (const s of a.saturation ?? []) {
+      assert.ok(s.from !== null && s.to !== null && Math.abs(s.from) <= 20 && Math.abs(s.to) <= 20);
+      const k = Math.round((s.from + s.to) / 2 / Math.PI - 0.5);
+      const c = (k + 0.5) * Math.PI;
+      assert.ok(Math.abs(s.from - (c - w)) < 1e-9 && Math.abs(s.to - (c + w)) < 1e-9, `${s.from}, ${s.to}`);
+    }
+    assert.ok(a.notes.some((n) => /oscillates/.test(n)));
+  });
   it('x² saturates only near its minimum: |2x| < 0.01 ⇔ |x| < 0.005', () => {
     const { formula: f, derivs } = formula('x ^ 2');
     const a = analyzeFormula(f, derivs, { parts: ['saturation'] });

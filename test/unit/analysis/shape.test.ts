@@ -60,6 +60,23 @@ describe('analysis: range, monotonicity, Lipschitz bound', () => {
     assert.equal(analyse('-x').monotone, 'decreasing');
     assert.equal(analyse('3 + 0 * x').monotone, 'constant');
   });
+  it('only the domain counts: log x is increasing (f′ = 1/x is negative where log is undefined)', () => {
+    const a = analyse('log(x)');
+    assert.equal(a.monotone, 'increasing');
+    assert.deepEqual(a.range, { inf: null, sup: null, infAttained: false, supAttained: false });
+  });
+  it('1/x: a pole at 0, unbounded both ways, not monotone on ℝ (it jumps up across 0), no Lipschitz bound', () => {
+    const a = analyse('1 / x');
+    assert.deepEqual(a.discontinuities, [0]);
+    assert.deepEqual(a.range, { inf: null, sup: null, infAttained: false, supAttained: false });
+    assert.equal(a.monotone, 'none');
+    assert.equal(a.lipschitz, null);
+  });
+  it('a step is non-decreasing though f′ = 0 wherever it is defined; √|x| has no Lipschitz bound at 0', () => {
+    assert.equal(analyse('x > 0 ? 1 : 0', { derivative: '0' }).monotone, 'non-decreasing');
+    assert.equal(analyse('x > 0 ? 0 : 1', { derivative: '0' }).monotone, 'non-increasing');
+    assert.equal(analyse('sqrt(abs(x))', { derivative: 'sign(x) / (2 * sqrt(abs(x)))' }).lipschitz, null);
+  });
   it('GELU (tanh form) is not monotone and dips to about −0.17', () => {
     const a = analyse(GELU_TANH);
     assert.equal(a.monotone, 'none');
@@ -86,7 +103,7 @@ describe('analysis: moments under z ~ N(0, 1)', () => {
     assert.equal(a.zeroCentred, true);
   });
   it('ELU: E[f] = e^(1/2)·Φ(−1)·α − α/2 + 1/√(2π) (derived from the lognormal partial mean)', () => {
-    // E[(e^z − 1); z < 0] = e^{1/2} Φ(−1) − 1/2; Φ(−1) = 0.15865525393145707 (normal table).
+    // E[(e^z − 1); z < 0] = e^{1/2} Φ(−1) − 1/2 (lognormal partial mean); Φ(−1) = 0.15865525393145707 (from memory).
     const alpha = 1.5;
     const want = alpha * (Math.exp(0.5) * 0.15865525393145707 - 0.5) + 1 / Math.sqrt(2 * Math.PI);
     const a = analyse(ELU.f, { derivative: ELU.d, params: { alpha } });

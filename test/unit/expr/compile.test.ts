@@ -1,7 +1,7 @@
 import { strict as assert } from 'node:assert';
 import { f16round } from '@petamoriken/float16';
 import { math } from '../../../src/core/math';
-import { compileScalar, compileRounded, compileMulti, compileSource, numberLiteral } from '../../../src/core/expr/compile';
+import { compileScalar, compileRounded, compileMulti, compileSource, compileProbed, numberLiteral } from '../../../src/core/expr/compile';
 import { SlopewiseError } from '../../../src/core/errors';
 
 const P = (s: string) => math.parse(s);
@@ -32,7 +32,7 @@ describe('compile: double precision', () => {
       }
     });
   }
-  it('erf matches handbook values (Abramowitz & Stegun table 7.1)', () => {
+  it('erf matches handbook values (from memory, as tabulated in Abramowitz & Stegun table 7.1)', () => {
     const f = compileScalar(P('erf(x)'), 'x');
     // A&S 7.1: erf(0.5) = 0.5204998778, erf(1) = 0.8427007929, erf(2) = 0.9953222650
     assert.ok(Math.abs(f(0.5) - 0.5204998778) < 1e-10);
@@ -55,6 +55,11 @@ describe('compile: double precision', () => {
       assert.ok(err instanceof SlopewiseError, `${src} should be refused, got ${String(err)}`);
     }
   });
+  it('does not resolve symbols through the prototype chain', () => {
+    for (const src of ['constructor', 'x + toString', '__proto__ * x', 'hasOwnProperty(x)', 'valueOf(x)']) {
+      assert.throws(() => compileScalar(P(src), 'x', {}), SlopewiseError, src);
+    }
+  });
   it('emits only numeric literals for constants and parameters', () => {
     const src = compileSource(P('a * x + 1e-300 - 2.5e+300'), 'x', { a: -0.25 });
     assert.ok(src.includes('(-0.25)) * (v0)'), src);
@@ -70,6 +75,20 @@ describe('compile: double precision', () => {
   });
 });
 
+describe('compile: probed', () => {
+  it('reports every operation’s value, in tree order, and returns the same result', () => {
+    const seen: Array<[number, number]> = [];
+    const { fn, operations } = compileProbed(P('log(1 + exp(x))'), 'x', {}, (k, v) => {
+      seen.push([k, v]);
+      return v;
+    });
+    assert.deepEqual(operations.map((o) => o.toString()), ['exp(x)', '1 + exp(x)', 'log(1 + exp(x))']);
+    assert.equal(fn(2), Math.log(1 + Math.exp(2)));
+    assert.deepEqual(seen.map(([k]) => k), [0, 1, 2]);
+    assert.equal(seen[0]?.[1], Math.exp(2));
+  });
+});
+
 describe('compile: rounded to a float type', () => {
   it('float32: matches a hand-written Math.fround evaluation of the sigmoid', () => {
     const f = compileRounded(P('1 / (1 + exp(-x))'), 'x', {}, 'float32');
@@ -80,9 +99,9 @@ describe('compile: rounded to a float type', () => {
       assert.equal(f(x), want);
     }
   });
-  it('float16: exp overflows at ln(65504 + 16) ≈ 11.0904 (IEEE 754 binary16 max 65504)', () => {
+  it('float16: exp overflows at ln(65504 + 16) ≈ 11.0901 (IEEE 754 binary16 max 65504, ulp 32 there)', () => {
     const f = compileRounded(P('exp(x)'), 'x', {}, 'float16');
-    // Inputs are rounded too: 11.0859375 is the last binary16 value below ln(65520) = 11.09040.
+    // Inputs are rounded too: 11.0859375 is the last binary16 value below ln(65520) = 11.09011.
     assert.equal(f(11.0859375), f16round(Math.exp(11.0859375)));
     assert.ok(Number.isFinite(f(11.0859375)));
     assert.equal(f(11.09375), Infinity);

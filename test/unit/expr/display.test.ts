@@ -12,7 +12,7 @@ describe('display form', () => {
   });
   it('restores Greek parameter names and uses Unicode operators', () => {
     assert.equal(displayForm(parseFormula('α·(eˣ − 1)').node), 'α·(e^x − 1)');
-    assert.equal(displayForm(parseFormula('lambda * x <= beta').node), 'λ·x ≤ β');
+    assert.equal(displayForm(parseFormula('lambda * x <= beta ? 1 : alpha').node), 'λ·x ≤ β ? 1 : α');
   });
   it('keeps decimals and writes small integer powers as superscripts', () => {
     assert.equal(displayForm(parseFormula('0.044715 * x^3 - pi').node), '0.044715·x³ − π');

@@ -91,6 +91,16 @@ describe('plot spec', function () {
     assert.equal(counts.line, 7);
   });
 
+  it('breaks a line at a jump (f″ of softsign at 0) but keeps a steep continuous curve joined', () => {
+    // f″ of x/(1+|x|) is −2·sign(x)/(1+|x|)³: it jumps from +2 to −2 at 0 (derived by hand from the quotient rule).
+    const jump = (x: number): number => (-2 * Math.sign(x)) / (1 + Math.abs(x)) ** 3;
+    const steep = (x: number): number => Math.tanh(40 * x);
+    const data = buildPlotData([{ label: 'j', f: jump, df: steep }], { domain: [-1, 1], samples: 100, floatType: 'float32' });
+    const segs = (layer: string): number => new Set(data.series.filter((r) => r.layer === layer).map((r) => r.segment)).size;
+    assert.equal(segs('f'), 2);
+    assert.equal(segs('f′'), 1);
+  });
+
   it('keeps exponential tails from flattening the chart (y range from the body of the data)', () => {
     const data = buildPlotData([{ label: 'exp', f: Math.exp, df: Math.exp }], { domain: [-2, 40], samples: 400, floatType: 'float32' });
     assert.ok(data.view.yMax < 1e16, `yMax ${data.view.yMax}`);
@@ -119,7 +129,8 @@ describe('plot spec', function () {
     const tanh: CurveInput = { label: 'tanh', f: Math.tanh, df: (x) => 1 - Math.tanh(x) ** 2 };
     const data = buildPlotData([SIGMOID, RELU, tanh], { domain: [-4, 4], samples: 60, floatType: 'float16' });
     const { vg, counts } = await render(buildPlotSpec(data));
-    assert.equal(counts.line, 6);
+    // sigmoid f, f′; relu f and f′ in two pieces (its step at 0 is a jump, not drawn as a vertical stroke); tanh f, f′.
+    assert.equal(counts.line, 7);
     const color = (vg.scales as { name: string; domain?: unknown }[]).find((s) => s.name === 'color');
     assert.ok(color, 'a color scale over the formulas');
   });

@@ -20,6 +20,8 @@ export function broadcastCalls(items: Item[]): Item[] {
 
 /** MATLAB `@(x) body`, Julia/Java/Kotlin `x -> body`, JS `x => body` / `(x) => body`. */
 export function arrowHead(tokens: Token[]): { tokens: Token[]; variable?: string } {
+  // Julia's @. broadcast macro changes nothing for scalars.
+  if (tokens[0]?.text === '@' && tokens[1]?.text === '.') return arrowHead(tokens.slice(2));
   const t0 = tokens[0];
   if (t0?.text === '@' && tokens[1]?.text === '(' && tokens[2]?.kind === 'id') {
     const close = tokens.findIndex((t) => t.text === ')');
@@ -34,5 +36,44 @@ export function arrowHead(tokens: Token[]): { tokens: Token[]; variable?: string
       return { tokens: tokens.slice(k + 2), variable: tokens[1].text };
     }
   }
-  return { tokens };
+  return functionHead(tokens);
+}
+
+/**
+ * `function(x) body` (R, JS, Lua), `function f(x) … end`, `fn f(x: f32) -> f32 { body }` (Rust),
+ * `fun f(x: Double) = body` (Kotlin): the first parameter names the variable; a braced block or a
+ * trailing `end` around the body is removed, and so is `return`.
+ */
+function functionHead(tokens: Token[]): { tokens: Token[]; variable?: string } {
+  const t0 = tokens[0]?.text;
+  if (t0 !== 'function' && t0 !== 'fn' && t0 !== 'fun' && t0 !== 'func') return { tokens };
+  let k = 1;
+  if (tokens[k]?.kind === 'id') k++;
+  if (tokens[k]?.text !== '(') return { tokens };
+  const variable = tokens[k + 1]?.kind === 'id' ? tokens[k + 1]?.text : undefined;
+  let depth = 0;
+  let close = -1;
+  for (let j = k; j < tokens.length; j++) {
+    const t = tokens[j]?.text;
+    if (t === '(') depth++;
+    else if (t === ')') { depth--; if (depth === 0) { close = j; break; } }
+  }
+  if (close < 0) return { tokens };
+  let body = tokens.slice(close + 1);
+  // Return types: -> f32, : Double, float64 (Go)
+  if (body[0]?.text === '->' || body[0]?.text === ':') body = body.slice(2);
+  else if (t0 === 'func' && body[0]?.kind === 'id' && body[1]?.text === '{') body = body.slice(1);
+  if (body[0]?.text === '=') body = body.slice(1);
+  body = blockBody(body);
+  return variable === undefined ? { tokens: body } : { tokens: body, variable };
+}
+
+/** `{ return e; }` → e; `… end` → …; leading `return`, trailing `;` dropped. */
+export function blockBody(tokens: Token[]): Token[] {
+  let body = tokens;
+  if (body[0]?.text === '{' && body[body.length - 1]?.text === '}') body = body.slice(1, -1);
+  if (body[body.length - 1]?.text === 'end') body = body.slice(0, -1);
+  while (body[body.length - 1]?.text === ';') body = body.slice(0, -1);
+  if (body[0]?.text === 'return') body = body.slice(1);
+  return body;
 }

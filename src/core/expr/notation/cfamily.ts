@@ -11,7 +11,7 @@ import { isGroup, isId, isOp, isParenGroup } from './tree';
 
 const C_TYPES = new Set([
   'float', 'double', 'half', '__half', 'int', 'long', 'float32_t', 'float64_t', 'float16_t', 'bfloat16', '__nv_bfloat16',
-  'scalar_t', 'real', 'Float', 'Double', 'T', 'f32', 'f64', 'acc_t', 'accscalar_t', 'opmath_t',
+  'scalar_t', 'real', 'Float', 'Double', 'T', 'f32', 'f64', 'acc_t', 'accscalar_t', 'opmath_t', 'float32', 'float64', 'float16',
 ]);
 
 /** (float)x, (double)(…), static_cast<float>(…), float(x) in C++ functional casts, Float64(x) in Julia. */
@@ -27,7 +27,7 @@ export function dropCasts(items: Item[]): Item[] {
       i += 3;
       continue;
     }
-    if (isId(it) && (C_TYPES.has(it.text) || it.text === 'Float32' || it.text === 'Float64' || it.text === 'Float16') && isParenGroup(items[i + 1])) {
+    if (isId(it) && (C_TYPES.has(it.text) || it.text === 'Float32' || it.text === 'Float64' || it.text === 'Float16') && isParenGroup(items[i + 1]) && !isOp(out[out.length - 1], '.')) {
       // float(x) → (x)
       continue;
     }

@@ -49,9 +49,9 @@ function applyLevel(items: Item[], notes: Set<string>, xor: boolean): Item[] {
   // Innermost first, so receivers and arguments are already canonical.
   let level = items.map((it) => (isGroup(it) ? { ...it, items: applyLevel(it.items, notes, xor) } : it));
   level = dropAsCasts(level);
+  level = stripModules(level, notes);
   level = dropCasts(level);
   level = normaliseOperators(level, notes, xor);
-  level = stripModules(level, notes);
   level = broadcastCalls(level);
   level = methodCalls(level);
   level = keywordArguments(level, notes);
@@ -85,6 +85,7 @@ function refuse(items: readonly Item[]): void {
         case '//': throw new SlopewiseError('not-allowed', 'Floor division (//) is not supported', it.start);
         case '%': throw new SlopewiseError('not-allowed', 'The % operator is not supported', it.start);
         case '.': throw new SlopewiseError('not-allowed', 'Property access (.) is not allowed', it.start);
+        case '\'': throw new SlopewiseError('not-allowed', "A prime (') is only understood on the left-hand side, as in f'(x) = …", it.start);
         case '::': case '@': case '\\': case '#': case '<<': case '>>': case '->': case '=>': case ':=':
         case '+=': case '-=': case '*=': case '/=': case '**=':
           throw new SlopewiseError('not-allowed', `'${it.text}' is not allowed in a formula`, it.start);
@@ -117,7 +118,8 @@ export function toCanonicalText(input: string, language?: Language): NotationRes
   let variableHint: string | undefined;
   for (const head of [pythonHead, arrowHead, closureHead]) {
     const r = head(tokens);
-    if (r.variable !== undefined) { variableHint = r.variable; tokens = r.tokens; }
+    if (r.variable !== undefined) variableHint = r.variable;
+    tokens = r.tokens;
   }
   const stmt = splitStatement(tokens);
   tokens = stmt.tokens;
@@ -126,7 +128,8 @@ export function toCanonicalText(input: string, language?: Language): NotationRes
     // `lambda x: …` may follow the assignment: f = lambda x: …
     for (const head of [pythonHead, arrowHead, closureHead]) {
       const r = head(tokens);
-      if (r.variable !== undefined) { variableHint = r.variable; tokens = r.tokens; }
+      if (r.variable !== undefined) variableHint = r.variable;
+      tokens = r.tokens;
     }
   }
   const tree = applyLevel(buildTree(tokens, input.length), notes, XOR_LANGUAGES.has(lang));

@@ -174,6 +174,90 @@ class LatexReader {
     return j;
   }
 
+  /** Splits [from, to) at top-level (brace depth 0) occurrences of `sep`. */
+  private splitTop(from: number, to: number, sep: string): [number, number][] {
+    const parts: [number, number][] = [];
+    let depth = 0;
+    let start = from;
+    for (let k = from; k < to; k++) {
+      const c = this.s[k];
+      if (c === '{') depth++;
+      else if (c === '}') depth--;
+      else if (depth === 0 && this.s.startsWith(sep, k)) {
+        parts.push([start, k]);
+        k += sep.length - 1;
+        start = k + 1;
+        continue;
+      } else if (c === '\\' && sep !== '\\\\') k++;
+    }
+    parts.push([start, to]);
+    return parts;
+  }
+
+  /** Reads a leading \text{word} (or a bare word) of a condition cell: 'if' is skipped, 'otherwise' ends it. */
+  private conditionWord(from: number, to: number): { kind: 'otherwise' | 'condition'; at: number } {
+    let j = this.skipSpaces(from, to);
+    while (j < to && (this.s[j] === ',' || this.s.startsWith('\\quad', j) || this.s.startsWith('\\,', j) || this.s.startsWith('\\;', j) || this.s[j] === ' ')) {
+      j += this.s[j] === ',' || this.s[j] === ' ' ? 1 : this.s.startsWith('\\quad', j) ? 5 : 2;
+    }
+    let word = '';
+    let after = j;
+    for (const cmd of ['\\text{', '\\mathrm{', '\\mbox{', '\\textrm{', '\\textup{']) {
+      if (this.s.startsWith(cmd, j)) {
+        const open = j + cmd.length - 1;
+        const close = this.matchBrace(open, to);
+        word = this.s.slice(open + 1, close).trim().toLowerCase();
+        after = close + 1;
+        break;
+      }
+    }
+    if (word === '') {
+      let k = j;
+      while (k < to && isLetter(this.s.charAt(k))) k++;
+      const w = this.s.slice(j, k).toLowerCase();
+      if (w === 'if' || w === 'otherwise' || w === 'else' || w === 'for' || w === 'when') { word = w; after = k; }
+    }
+    if (word === 'otherwise' || word === 'else' || word === 'sonst') return { kind: 'otherwise', at: after };
+    if (word === 'if' || word === 'for' || word === 'when' || word === 'if ' ) return { kind: 'condition', at: after };
+    return { kind: 'condition', at: j };
+  }
+
+  /** \begin{cases} v₁ & c₁ \\ v₂ & c₂ … \end{cases} → (c₁) ? (v₁) : ((c₂) ? (v₂) : (vₙ)). */
+  private cases(start: number, i: number, to: number): number {
+    const env = '{cases}';
+    if (!this.s.startsWith(env, i)) throw new SlopewiseError('syntax', 'Only the cases environment is supported after \\begin', start);
+    const bodyStart = i + env.length;
+    const endAt = this.s.indexOf('\\end{cases}', bodyStart);
+    if (endAt < 0 || endAt >= to) throw new SlopewiseError('syntax', 'Missing \\end{cases}', start);
+    const rows = this.splitTop(bodyStart, endAt, '\\\\').filter(([a, b]) => this.s.slice(a, b).trim() !== '');
+    if (rows.length < 2) throw new SlopewiseError('syntax', 'A cases environment needs at least two rows', start);
+    let open = 0;
+    rows.forEach(([a, b], r) => {
+      const cells = this.splitTop(a, b, '&');
+      if (cells.length !== 2) throw new SlopewiseError('syntax', 'Each row of cases needs one & between value and condition', a);
+      const [value, cond] = cells as [[number, number], [number, number]];
+      // "x, & if …": the comma belongs to the prose, not the value.
+      while (value[1] > value[0] && (this.s[value[1] - 1] === ',' || this.s[value[1] - 1] === ' ')) value[1]--;
+      const last = r === rows.length - 1;
+      const w = this.conditionWord(cond[0], cond[1]);
+      if (last) {
+        this.out.push('(', value[0]);
+        this.convert(value[0], value[1]);
+        this.out.push(')', value[1]);
+        return;
+      }
+      if (w.kind === 'otherwise') throw new SlopewiseError('syntax', "'otherwise' must be the last row of cases", cond[0]);
+      this.out.push('((', cond[0]);
+      this.convert(w.at, cond[1]);
+      this.out.push(') ? (', cond[0]);
+      this.convert(value[0], value[1]);
+      this.out.push(') : ', value[1]);
+      open++;
+    });
+    for (let k = 0; k < open; k++) this.out.push(')', endAt);
+    return endAt + '\\end{cases}'.length;
+  }
+
   private convert(from: number, to: number): void {
     let i = from;
     const s = this.s;
@@ -252,6 +336,10 @@ class LatexReader {
           continue;
         } else throw new SlopewiseError('syntax', `Unsupported delimiter after \\${name}`, j);
         i = j + 1;
+        continue;
+      }
+      if (name === 'begin') {
+        i = this.cases(start, i, to);
         continue;
       }
       if (name === 'lvert') { this.space(start); this.out.push('abs(', start); continue; }

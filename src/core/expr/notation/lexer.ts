@@ -114,6 +114,13 @@ export function lex(text: string, map: readonly number[], end: number, language:
       spaced = false;
       continue;
     }
+    // A prime after a name or bracket (f'(x), y'') is notation, not a string.
+    if (c === '\'' && i > 0 && (isIdentChar(text.charAt(i - 1)) || text[i - 1] === ')' || text[i - 1] === '\'')) {
+      tokens.push({ kind: 'op', text: '\'', start: pos(start), end: pos(i) + 1, spaced });
+      i++;
+      spaced = false;
+      continue;
+    }
     if (c === '"' || c === '\'' || c === '`') {
       const close = text.indexOf(c, i + 1);
       if (close < 0) throw new SlopewiseError('syntax', `Unclosed ${c} string`, pos(i));

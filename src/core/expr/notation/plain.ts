@@ -33,8 +33,11 @@ export function splitStatement(tokens: Token[]): { tokens: Token[]; variable?: s
     toks = toks.slice(split + width);
     // f(x) = …, double f(double x) = …: the last call-shaped part names the variable.
     const open = left.findIndex((t) => t.text === '(');
-    if (open > 0 && left[open - 1]?.kind === 'id') {
-      lhs = left[open - 1]?.text;
+    // f(x) = …, f'(x) = …, f''(x) = …
+    let nameAt = open - 1;
+    while (nameAt > 0 && left[nameAt]?.text === '\'') nameAt--;
+    if (open > 0 && left[nameAt]?.kind === 'id') {
+      lhs = left.slice(nameAt, open).map((t) => t.text).join('');
       const params = left.slice(open + 1).filter((t) => t.kind === 'id');
       const last = params.length > 1 && left[open + 1]?.kind === 'id' && left[open + 2]?.kind === 'id' ? params[1] : params[0];
       variable = last?.text;

@@ -4,9 +4,43 @@
  * positions; `lambda x:` and `def f(x): return` heads.
  */
 import { SlopewiseError } from '../../errors';
-import type { Item } from './tree';
+import type { Group, Item } from './tree';
 import type { Token } from './lexer';
-import { firstStart, isId, isOp, isParenGroup, joinCommas, paren, splitCommas, synth } from './tree';
+import { firstStart, isGroup, isId, isOp, isParenGroup, joinCommas, paren, splitCommas, synth } from './tree';
+
+/** A braced block used as a value (Rust/Kotlin `if` arms) → a bracketed group. */
+function asValue(items: Item[]): Item[] {
+  if (items.length === 1 && isGroup(items[0]) && items[0].open.text === '{') return [paren((items[0] as Group).items, (items[0] as Group).open.start)];
+  return items;
+}
+
+/**
+ * Prefix conditionals: Kotlin/Scala `if (C) A else B`, Rust `if C { A } else { B }`, chained with
+ * `else if`. Both become `(C) ? (A) : (B)`.
+ */
+function prefixIf(items: Item[]): Item[] {
+  const ifTok = items[0] as Token;
+  let k = 1;
+  let cond: Item[];
+  let a: Item[];
+  const elseAt = items.findIndex((it, j) => j > 1 && isId(it, 'else'));
+  if (elseAt < 0) throw new SlopewiseError('syntax', "'if' without 'else'", ifTok.start);
+  const braceAt = items.findIndex((it, j) => j > 1 && j < elseAt && isGroup(it) && it.open.text === '{');
+  if (braceAt > 0) {
+    cond = items.slice(1, braceAt);
+    a = asValue(items.slice(braceAt, elseAt));
+  } else {
+    if (!isParenGroup(items[k])) throw new SlopewiseError('syntax', "'if' needs (condition) or a { } block", ifTok.start);
+    cond = [items[k] as Item];
+    k++;
+    a = items.slice(k, elseAt);
+  }
+  const rest = items.slice(elseAt + 1);
+  const b = isId(rest[0], 'if') ? prefixIf(rest) : asValue(rest);
+  if (cond.length === 0 || a.length === 0 || b.length === 0) throw new SlopewiseError('syntax', "Incomplete 'if … else …'", ifTok.start);
+  const at = (items[elseAt] as Token).start;
+  return [paren(cond, ifTok.start), synth('op', '?', ifTok.start), paren(a, ifTok.start), synth('op', ':', at), paren(b, at)];
+}
 
 /** `A if C else B` at one comma-separated level (right-associative, lowest precedence). */
 export function pythonTernary(items: Item[]): Item[] {
@@ -14,6 +48,7 @@ export function pythonTernary(items: Item[]): Item[] {
   if (parts.length > 1) return joinCommas(parts.map((p) => pythonTernary(p)), firstStart(items[0] as Item));
   const ifAt = items.findIndex((it) => isId(it, 'if'));
   if (ifAt < 0) return items;
+  if (ifAt === 0) return prefixIf(items);
   const elseAt = items.findIndex((it, k) => k > ifAt && isId(it, 'else'));
   const ifTok = items[ifAt] as Token;
   if (ifAt === 0) throw new SlopewiseError('syntax', "Nothing before 'if'", ifTok.start);
