@@ -19,6 +19,7 @@ import { clearInspectCache, inspect } from '../src/core/inspect';
 import { buildHoverCard, type HoverInput } from '../src/core/hover';
 import { checkText } from '../src/core/check';
 import { LIMITS } from '../src/core/limits';
+import { math } from '../src/core/math';
 import { FLOAT_TYPES } from '../src/core/types';
 import { adversarialInputs } from './adversarial';
 import { bareCommentScan, commentSyntax, mixedLanguageFiles, writeTree, type LangFile } from './generate';
@@ -264,7 +265,12 @@ function benchSimplify(args: Args): void {
   console.log('\n[simplify] adversarial inputs through simplifyWithinBudget');
   const inputs = adversarialInputs(args.quick);
   const budget = LIMITS.simplifyBudgetMs;
-  simplifyWithinBudget(inputs[0]!.node); // the first call in a process pays mathjs's warm-up
+  // The first simplify in a process compiles mathjs's rule set (~160 ms unloaded, uninterruptible);
+  // measured apart, since every later call is what a hover pays.
+  const w0 = now();
+  simplifyWithinBudget(math.parse('2 * x + 3 * x + x * x / x'));
+  const warmupMs = now() - w0;
+  results.simplifyFirstCallMs = warmupMs;
   let worst = { name: '', ms: 0, simplified: true };
   const all: { name: string; ms: number; simplified: boolean; note?: string }[] = [];
   for (const inp of inputs) {
@@ -278,7 +284,7 @@ function benchSimplify(args: Args): void {
   }
   results.simplifyBudgetMs = budget;
   record('simplifyWorstMs', `slowest of ${inputs.length} adversarial simplifications (budget ${budget} ms)`, worst.ms, `≤ ${1.5 * budget} (1.5 × budget)`, worst.ms <= 1.5 * budget,
-    `${worst.name}${worst.simplified ? '' : ', fell back to the unsimplified form'}`, { simplifyWorst: worst, simplifyDetail: all });
+    `${worst.name}${worst.simplified ? '' : ', fell back to the unsimplified form'}; first call in the process (rule warm-up) ${fmt(warmupMs)} ms`, { simplifyWorst: worst, simplifyDetail: all });
   rows.push({ key: 'simplifyBudgetMs', what: 'budget of one simplification (LIMITS.simplifyBudgetMs)', value: budget, goal: '—', ok: null });
 }
 

@@ -13,6 +13,7 @@ import { analyzeFormula } from '../core/analysis';
 import { findFormulas } from '../core/detect';
 import { checkText, type CheckOptions } from '../core/check';
 import { LIMITS } from '../core/limits';
+import { coreLanguage } from './languages';
 import { grid, safeEval } from '../core/plot/sample';
 import type { HoverInput } from '../core/hover';
 import type { CurveInput } from '../core/plot/spec';
@@ -193,7 +194,7 @@ export function plotCurve(request: FormulaOpts & { formula: string }, overrides:
 
 /** The detected formula nearest to `offset` (to follow a plotted formula while its file is edited). */
 export function formulaNear(doc: vscode.TextDocument, offset: number, _previous: string): { text: string; offset: number; variable?: string } | undefined {
-  const all = findFormulasIn(doc.getText(), { fileName: doc.fileName });
+  const all = findFormulasIn(doc.getText(), { languageId: coreLanguage(doc.languageId) ?? 'plain', fileName: doc.fileName });
   let best: FoundFormula | undefined;
   for (const f of all) if (!best || Math.abs(f.span.start - offset) < Math.abs(best.span.start - offset)) best = f;
   if (!best) return undefined;

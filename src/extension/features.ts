@@ -238,6 +238,10 @@ export class Features implements vscode.Disposable {
     return this.lastReport;
   }
 
+  plottedFormulas(): string[] {
+    return PlotPanel.current?.formulas() ?? [];
+  }
+
   async copyDerivative(arg: unknown): Promise<void> {
     const target = this.commandTarget(arg);
     if (!target) {

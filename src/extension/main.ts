@@ -21,6 +21,8 @@ export interface SlopewiseApi {
     nextRender(): Promise<RenderReport>;
     /** The last render report, if a plot was rendered in this session. */
     lastRender(): RenderReport | undefined;
+    /** The formulas on the open plot (source text), [] when no plot is open. */
+    plottedFormulas(): string[];
     /** Number of hover cards held in the per-formula cache. */
     hoverCacheSize(): Promise<number>;
     /** The settings snapshot the extension currently works with. */
@@ -120,6 +122,7 @@ export function activate(context: vscode.ExtensionContext): SlopewiseApi {
     test: {
       nextRender: async () => (await loadFeatures()).nextRender(),
       lastRender: () => loaded?.lastRender(),
+      plottedFormulas: () => loaded?.plottedFormulas() ?? [],
       hoverCacheSize: async () => (await loadFeatures()).hoverCacheSize(),
       config: () => config,
     },

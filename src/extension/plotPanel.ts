@@ -102,6 +102,11 @@ export class PlotPanel {
     this.update();
   }
 
+  /** The formulas on the chart, as plotted (source text). */
+  formulas(): string[] {
+    return this.entries.map((e) => e.request.formula);
+  }
+
   settingsChanged(config: Config): void {
     this.samples = config.plotSamples;
     this.update();

@@ -290,6 +290,19 @@ async function main() {
   const saved = await waitForFile(target);
   check(saved && fs.readFileSync(target, 'utf8').startsWith('<svg'), 'Export SVG saves an SVG file through the save dialog');
   if (saved) fs.rmSync(target);
+  const png = `/tmp/slopewise-browser-${process.pid}.png`;
+  await frame.locator('#export-png').click();
+  await dialog.waitFor({ timeout: 15_000 });
+  await page.waitForFunction(() => /slopewise-plot\.png/.test(document.querySelector('.quick-input-widget input')?.value ?? ''), undefined,
+    { timeout: 15_000 }).catch(() => {});
+  await dialog.fill(png);
+  await page.waitForTimeout(300);
+  await page.keyboard.press('Enter');
+  const pngSaved = await waitForFile(png);
+  // PNG signature (ISO/IEC 15948 / RFC 2083): 89 50 4E 47 0D 0A 1A 0A.
+  check(pngSaved && fs.readFileSync(png).subarray(0, 8).equals(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a])),
+    'Export PNG saves a PNG file');
+  if (pngSaved) fs.rmSync(png);
 
   // Sliders: a formula with a parameter (the Rust ELU's ALPHA) gets one, and moving it redraws.
   console.log('slider');

@@ -1,7 +1,7 @@
 // The plot command opens the webview; the webview reports back what it drew (layers, marks).
 import * as assert from 'node:assert/strict';
 import * as vscode from 'vscode';
-import { api, at, closeAll, open } from './helpers';
+import { api, at, closeAll, open, scratch, waitFor } from './helpers';
 
 describe('plot', () => {
   after(async () => {
@@ -46,5 +46,20 @@ describe('plot', () => {
     assert.equal(r.formulas, 1);
     // Lines for f and f′ (f′ is split at the kink), the zero rule, the kink's rule and diamond.
     assert.ok(r.marks >= 5, `marks: ${r.marks}`);
+  });
+
+  it('follows the document: editing the plotted function redraws the chart with the new formula', async () => {
+    const a = await api();
+    const editor = await scratch('python', 'def bump(x):\n    return x * x / (1 + x * x)\n');
+    const pos = at(editor.document, 'x * x / (1', 2);
+    editor.selection = new vscode.Selection(pos, pos);
+    let rendered = a.test.nextRender();
+    await vscode.commands.executeCommand('slopewise.plotFormula');
+    await rendered;
+    assert.deepEqual(a.test.plottedFormulas().map((f) => f.replace(/\s+/g, '')), ['x*x/(1+x*x)']);
+    rendered = a.test.nextRender();
+    await editor.edit((b) => b.replace(new vscode.Range(pos.translate(0, -2), pos.translate(0, 3)), 'x * x * x'));
+    await rendered;
+    await waitFor(() => a.test.plottedFormulas().some((f) => f.replace(/\s+/g, '').startsWith('x*x*x/')), 'the plot to follow the edit');
   });
 });

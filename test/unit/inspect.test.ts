@@ -46,6 +46,10 @@ describe('inspect', () => {
     assert.throws(() => inspect('x + fooo(x)'), (e: unknown) => e instanceof SlopewiseError && e.code === 'unknown-function' && e.position === 4);
   });
 
+  it('options out of range are a SlopewiseError, not a RangeError', () => {
+    assert.throws(() => inspect('tanh(x)', { saturationThreshold: -1 }), (e: unknown) => e instanceof SlopewiseError && e.code === 'bad-argument');
+  });
+
   it('caches by input and options', () => {
     const a = inspect('tanh(x)', { analysis: false });
     assert.equal(inspect('tanh(x)', { analysis: false }), a);

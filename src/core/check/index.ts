@@ -659,12 +659,21 @@ function callSiteFindings(model: SourceModel, d: Read, fwd: Read, forwards: Read
       const appliedTo = callsIn(toks).some((c) => c.name === fname && c.args[0] === arg);
       const isParam = fn.params.some((p) => p.name === arg);
       if (!appliedTo && !isParam) continue;
-      out.push({
+      const f: Finding = {
         rule: 'derivative-mismatch', severity: 'error', span: { start: call.start, end: call.end },
         message: MESSAGES.callSiteInput(dname, arg, fname),
         expected: `${dname}(${fname}(${arg}))`, found: `${dname}(${arg})`,
         related: { span: d.span, message: MESSAGES.derivativeHere(dname) },
-      });
+      };
+      // evidence: what the call computes (the derivative applied to the input) against f′(input)
+      try {
+        const x = fwd.formula.variable;
+        const Fp = compileScalar(differentiate(fwd.formula.node, x), x, fwd.formula.parameters);
+        const D = compileScalar(d.formula.node, d.formula.variable, { ...d.formula.parameters });
+        const c = compareFunctions(Fp, D);
+        if (c) f.evidence = { x: c.x, expectedValue: c.expectedValue, foundValue: c.foundValue, maxError: c.maxError, tolerance: c.tolerance, points: c.points };
+      } catch { /* evidence is optional */ }
+      out.push(f);
     }
   }
   return out;

@@ -6,7 +6,7 @@ import type { MathNode } from 'mathjs';
 import { LIMITS } from '../limits';
 import type { Derivatives, Formula } from '../types';
 import { differentiateMarked, liftConditionals } from './differentiate';
-import { displayForm } from './display';
+import { derivativeDisplayForm } from './display';
 import { unmark } from './markers';
 import { countNodes } from './nodes';
 import { lightClean, simplifyWithinBudget } from './simplify';
@@ -36,8 +36,8 @@ export function derive(formula: Formula, opts: DeriveOptions = {}): Derivatives 
     firstNode,
     second: secondNode.toString(),
     secondNode,
-    firstDisplay: displayForm(d1.marked),
-    secondDisplay: displayForm(d2.marked),
+    firstDisplay: derivativeDisplayForm(d1.marked),
+    secondDisplay: derivativeDisplayForm(d2.marked),
   };
   const notes = [d1.note && `f′: ${d1.note}`, d2.note && `f″: ${d2.note}`].filter((s): s is string => !!s);
   if (notes.length > 0) out.simplifyNote = notes.join('; ');

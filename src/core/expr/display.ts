@@ -5,6 +5,7 @@
  */
 import type { MathNode } from 'mathjs';
 import { mark } from './markers';
+import { polishForDisplay, setPrintedLength } from './polish';
 import { args, condParts, fnName, isNum, numValue, opFn, symName, isOpNode } from './nodes';
 import { ASCII_TO_GREEK } from './notation/unicode';
 
@@ -21,7 +22,7 @@ const OPS: Readonly<Record<string, string>> = {
   largerEq: ' ≥ ', equal: ' = ', unequal: ' ≠ ', and: ' and ', or: ' or ',
 };
 
-const FUNCTION_NAMES: Readonly<Record<string, string>> = { sigmoid: 'σ', log: 'ln' };
+const FUNCTION_NAMES: Readonly<Record<string, string>> = { sigmoid: 'σ', log: 'ln', normal_pdf: 'φ', normal_cdf: 'Φ' };
 
 export function formatNumber(v: number): string {
   if (!Number.isFinite(v)) return v > 0 ? '∞' : v < 0 ? '−∞' : 'NaN';
@@ -116,9 +117,22 @@ function wrap(n: MathNode, min: number, opts: DisplayOptions): string {
   return precOf(n) < min ? `(${s})` : s;
 }
 
+setPrintedLength((n) => print(n, {}).length);
+
 /** Unicode display of a canonical or marked tree. */
 export function displayForm(node: MathNode, opts: DisplayOptions = {}): string {
   return print(mark(node), opts);
+}
+
+/**
+ * Display of a derivative: the polished tree (constants folded, like terms collected, σ/tanh
+ * factors, φ/Φ named; see polish.ts) when it prints shorter than the tree as derived, else that.
+ */
+export function derivativeDisplayForm(node: MathNode, opts: DisplayOptions = {}): string {
+  const marked = mark(node);
+  const plain = print(marked, opts);
+  const polished = print(polishForDisplay(marked), opts);
+  return polished.length < plain.length ? polished : plain;
 }
 
 /** LaTeX of a canonical or marked tree (mathjs toTex, σ and softplus collapsed). */

@@ -220,7 +220,8 @@ export function plotTemplate(): { [k: string]: Json } {
       {
         data: { name: 'kinks' },
         transform: [{ filter: 'showF' }],
-        mark: { type: 'point', shape: 'diamond', filled: true, size: 70, clip: true },
+        // Hollow and larger than the line is wide, so it stands out on the curve it marks.
+        mark: { type: 'point', shape: 'diamond', filled: false, size: 110, strokeWidth: 2, clip: true },
         encoding: {
           x,
           y: { ...y },

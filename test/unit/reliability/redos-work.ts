@@ -149,3 +149,17 @@ export function conditionLines(lines: number): number {
   const text = Array.from({ length: lines }, () => `# y = x if x > 0 ${'a'.repeat(width)}`).join('\n');
   return findFormulas(text, { languageId: 'python' }).length;
 }
+
+/** A function body of `depth` nested calls in each code family (2^depth work before the stmt.ts fix). */
+export function nestedCalls(depth: number): number {
+  let n = 0;
+  const call = `${'g('.repeat(depth)}x${')'.repeat(depth)}`;
+  const files: [string, string][] = [
+    ['rust', `fn f(x: f64) -> f64 {\n  ${call}\n}\n`],
+    ['python', `def f(x):\n    return ${call}\n`],
+    ['r', `f <- function(x) {\n  ${call}\n}\n`],
+    ['julia', `f(x) = ${call}\n`],
+  ];
+  for (const [languageId, text] of files) n += checkText(text, { languageId }).length + findFormulas(text, { languageId }).length;
+  return n;
+}
