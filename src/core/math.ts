@@ -54,7 +54,6 @@ import {
   modDependencies,
   piDependencies,
   eDependencies,
-  evaluateDependencies,
 } from 'mathjs/number';
 import type { FactoryFunctionMap } from 'mathjs';
 
@@ -106,9 +105,8 @@ export const math = create(
     modDependencies,
     piDependencies,
     eDependencies,
-    // evaluate is only for tests that check our output is stock-mathjs evaluable; the core never
-    // calls it on user text.
-    evaluateDependencies,
+    // No `evaluate`: the core never evaluates text. Tests that check our output is stock-mathjs
+    // evaluable use the full `mathjs` package; trees are evaluated with `node.evaluate` or compile.ts.
   } as unknown as FactoryFunctionMap,
   {},
 );

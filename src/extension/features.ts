@@ -43,6 +43,7 @@ interface FormulaTarget {
   variable?: string;
   params?: Record<string, number>;
   name?: string;
+  role?: FoundFormula['role'];
   language?: string;
 }
 
@@ -75,7 +76,7 @@ export class Features implements vscode.Disposable {
       if (!config.hoverEnabled || token.isCancellationRequested) return undefined;
       const target = this.formulaAt(doc, pos);
       if (!target) return undefined;
-      const key = HoverCache.key(`${target.language ?? doc.languageId}\u0001${target.text}`, target.variable, target.params, config);
+      const key = HoverCache.key(`${target.language ?? doc.languageId}\u0001${target.name ?? ''}\u0001${target.role ?? ''}\u0001${target.text}`, target.variable, target.params, config);
       let card = this.hovers.get(key);
       if (card === undefined) {
         const language = (target.language ?? coreLanguage(doc.languageId)) as Language | undefined;
@@ -83,6 +84,9 @@ export class Features implements vscode.Disposable {
           variable: target.variable, language, params: target.params,
           saturationThreshold: config.saturationThreshold, floatTypes: config.floatTypes,
         });
+        // A comment formula is named after its left-hand side ("f"): only real function names title the card.
+        if (target.name && /^[A-Za-z_][\w.]+$/.test(target.name)) result.name = target.name;
+        if (target.role) result.role = target.role;
         const args: FormulaArgs = { formula: target.text, uri: doc.uri.toString() };
         if (target.variable) args.variable = target.variable;
         if (target.params) args.params = target.params;
@@ -134,6 +138,7 @@ export class Features implements vscode.Disposable {
     if (found.params) out.params = found.params;
     if (found.name) out.name = found.name;
     out.language = found.language;
+    out.role = found.role;
     return out;
   }
 

@@ -9,6 +9,10 @@
 import * as vscode from 'vscode';
 import { Config, SECTION } from './config';
 import { COMMANDS, type CommandContext } from './commands';
+// A static import: esbuild cannot tree-shake modules reached through a dynamic import() in a CommonJS
+// bundle, which pulled all of mathjs (every function, decimal.js) into the host bundle. The Features
+// object is still only constructed on first need.
+import * as featuresModule from './features';
 import type { Features } from './features';
 import type { RenderReport } from '../core/plot/protocol';
 
@@ -38,7 +42,7 @@ export function activate(context: vscode.ExtensionContext): SlopewiseApi {
   let features: Promise<Features> | undefined;
   let loaded: Features | undefined;
   const loadFeatures = (): Promise<Features> => {
-    features ??= import('./features').then((m) => {
+    features ??= Promise.resolve(featuresModule).then((m) => {
       const f = new m.Features(context, log, () => config);
       context.subscriptions.push(f);
       loaded = f;

@@ -44,11 +44,12 @@ describe('hover card', () => {
   const lines = card.split('\n');
 
   it('leads with the recognised name and the formula', () => {
-    assert.equal(lines[0], '**sigmoid**  `f(x) = σ(x)`');
+    assert.equal(lines[0], '**sigmoid**  ');
+    assert.equal(lines[1], '`f(x) = σ(x)`');
   });
 
   it('keeps the command links on the second line, above anything the widget might scroll away', () => {
-    assert.equal(lines[2], '[$(graph-line) Plot](command:slopewise.plotFormula?%5B%5D "Plot f, f′ and f″ in a panel") · '
+    assert.equal(lines[3], '[$(graph-line) Plot](command:slopewise.plotFormula?%5B%5D "Plot f, f′ and f″ in a panel") · '
       + '[$(copy) Copy f′](command:slopewise.copyDerivative?%5B%5D "Copy the derivative as code")');
   });
 
@@ -92,6 +93,13 @@ describe('hover card', () => {
     assert.ok(lines.length <= 22, `${lines.length} lines:\n${card}`);
   });
 
+  it('names the source function and says when the card is about a hand-written derivative', () => {
+    const c = buildHoverCard({ ...SIGMOID, name: 'conf_grad', role: 'derivative', recognised: undefined }, { floatTypes: [] });
+    assert.ok(c.startsWith('**conf\\_grad** *(hand-written derivative: f below is this function)*  \n`f(x) = σ(x)`'), c.split('\n')[0]);
+    const d = buildHoverCard({ ...SIGMOID, name: 'squash' }, { floatTypes: [] });
+    assert.ok(d.startsWith('**squash · sigmoid**  '), d.split('\n')[0]);
+  });
+
   it('says what is unbound instead of showing figures it cannot have', () => {
     const c = buildHoverCard({ input: 'a*x', expression: 'a * x', variable: 'x', derivative: 'a', unbound: ['a'] }, { floatTypes: ['float16'] });
     assert.ok(c.includes('*unbound: a*'), c);
@@ -101,6 +109,7 @@ describe('hover card', () => {
   it('escapes markdown in formulas (backticks cannot break out of the code span)', () => {
     const c = buildHoverCard({ input: 'x', expression: 'x`**bold**', variable: 'x', derivative: '1' }, { floatTypes: [] });
     assert.ok(c.startsWith('`` f(x) = x`**bold** ``'), c);
+    assert.ok(!c.includes('**bold**  '));
   });
 });
 

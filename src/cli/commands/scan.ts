@@ -110,11 +110,6 @@ function ioMessage(e: unknown): string {
   return e instanceof Error ? e.message : String(e);
 }
 
-/** Only files whose language the detector knows a comment syntax for (everything else is prose or data). */
-export function scannable(file: string): boolean {
-  return languageInfo(undefined, file).family !== 'generic' || /\.(txt|md)$/i.test(file);
-}
-
 export const command: CommandSpec = {
   name: 'scan',
   summary: 'list the activation, loss and derivative formulas found in source files',

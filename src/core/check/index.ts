@@ -12,10 +12,11 @@ import { LIMITS, type Limits } from '../limits';
 import { FLOAT_TYPES, type Finding, type Formula, type Language, type ScalarFn, type Span } from '../types';
 import { parseFormula } from '../expr/parse';
 import { differentiate } from '../expr/differentiate';
-import { simplifyWithinBudget } from '../expr/simplify';
+import { lightClean } from '../expr/simplify';
 import { compileScalar } from '../expr/compile';
 import { analyzePairing, stableRewrites } from '../analysis/index';
 import { emitCode, emitLanguageFor } from '../emit';
+import { parseNumber } from '../detect/code';
 import { analyzeSource, derivativeBase, hasSymbol, replaceSymbol, stripKernelSuffix, type CodeFormula, type SourceModel } from '../detect/index';
 import type { CommentFormula } from '../detect/comments';
 import type { Token } from '../detect/lexer';
@@ -24,6 +25,7 @@ import { compareFunctions, samplePoints, type Comparison } from './compare';
 import { math } from '../math';
 import { MESSAGES } from './messages';
 import { TARGET_NAMES, OUTPUT_NAMES, UPSTREAM_NAMES } from '../detect/words';
+import { keyOf, Lru, memo, paramsKey } from './cache';
 
 /** Width (in x) of a float32 breakdown interval of kind zero/inaccurate that is worth a warning. */
 export const SEVERE_WIDTH = 1;
@@ -38,6 +40,62 @@ export interface CheckOptions {
   limits?: Partial<Limits>;
   /** Rules to run (default all). */
   rules?: readonly Finding['rule'][];
+  /** Where to keep parsed formulas and comparisons (default: one shared, bounded cache; see cache.ts). */
+  cache?: CheckCache;
+}
+
+/**
+ * Results the checker reuses, each a pure function of its key (cache.ts): formulas by (text,
+ * notation, variable, parameter bindings); comparisons by the keys of both formulas plus the argument
+ * form, the upstream names and the defaults both sides declare; float analyses by the formula's key.
+ * Nothing keyed here depends on where in a file the formula is.
+ */
+export class CheckCache {
+  readonly parse = new Lru<{ f?: Formula }>();
+  readonly verdict = new Lru<{ v?: Verdict }>();
+  readonly same = new Lru<{ c?: Comparison }>();
+  readonly unstable = new Lru<{ u?: UnstableCore }>();
+  readonly vanishing = new Lru<{ w?: VanishingCore }>();
+  clear(): void {
+    this.parse.clear();
+    this.verdict.clear();
+    this.same.clear();
+    this.unstable.clear();
+    this.vanishing.clear();
+  }
+}
+
+const sharedCache = new CheckCache();
+/** The cache of the check running now (checks are synchronous; restored when a check ends). */
+let active: CheckCache = sharedCache;
+/** The key a cached formula was read under (by identity; formulas are never mutated). */
+const formulaKeys = new WeakMap<Formula, string>();
+
+/** Empties the shared cache used by `checkText`/`checkSource` (the bench's cold checks; tests). */
+export function clearCheckCaches(): void {
+  sharedCache.clear();
+}
+
+/**
+ * An incremental checker for one document: `check` returns exactly what `checkText` returns for the
+ * same text, reusing the formulas, comparisons and float analyses of functions whose text (and the
+ * text of the functions they pair with, and the parameter bindings) did not change since an earlier
+ * check. Detection and pairing run on the whole text every time — pairing crosses functions, so
+ * only results keyed by the contents of both sides are reused. Bounded; drop it with the document.
+ */
+export interface Checker {
+  check(text: string, opts?: Omit<CheckOptions, 'cache'>): Finding[];
+  checkSource(text: string, opts?: Omit<CheckOptions, 'cache'>): CheckResult;
+  clear(): void;
+}
+
+export function createChecker(): Checker {
+  const cache = new CheckCache();
+  return {
+    check: (text, opts = {}) => checkSource(text, { ...opts, cache }).findings,
+    checkSource: (text, opts = {}) => checkSource(text, { ...opts, cache }),
+    clear: () => cache.clear(),
+  };
 }
 
 export interface CheckResult {
@@ -68,6 +126,16 @@ export function checkText(text: string, opts: CheckOptions = {}): Finding[] {
 }
 
 export function checkSource(text: string, opts: CheckOptions = {}): CheckResult {
+  const outer = active;
+  active = opts.cache ?? sharedCache;
+  try {
+    return checkSourceWith(text, opts);
+  } finally {
+    active = outer;
+  }
+}
+
+function checkSourceWith(text: string, opts: CheckOptions): CheckResult {
   const limits = { ...LIMITS, ...opts.limits };
   const model = analyzeSource(text, opts);
   const notes = [...model.skipped];
@@ -86,9 +154,11 @@ export function checkSource(text: string, opts: CheckOptions = {}): CheckResult 
     readingStopped = true;
     return true;
   };
+  // parameters: file constants < defaults < numeric arguments at call sites
+  const allCalls = callsIn(model.lexed.tokens.filter((t) => t.kind !== 'nl'));
   for (const c of model.codeFormulas) {
     if (stopReading()) break;
-    const params = { ...model.constants, ...c.params };
+    const params = { ...model.constants, ...c.params, ...callSiteParams(c, allCalls, model.constants) };
     for (const u of c.upstream) params[u] = 1;
     const f = tryParse(c.text, language, c.variable, params);
     if (!f) continue;
@@ -250,9 +320,17 @@ function dedupe(fs: Finding[]): Finding[] {
 }
 
 function tryParse(text: string, language: Language, variable: string | undefined, params: Record<string, number>): Formula | undefined {
+  const key = keyOf('p', language, variable, paramsKey(params), text);
+  const hit = active.parse.get(key);
+  if (hit) return hit.f;
   try {
-    return parseFormula(text, { language, ...(variable ? { variable } : {}), params });
-  } catch {
+    const f = parseFormula(text, { language, ...(variable ? { variable } : {}), params });
+    formulaKeys.set(f, key);
+    active.parse.set(key, { f });
+    return f;
+  } catch (e) {
+    // A failure is as deterministic as a success, except one caused by a time budget: not kept.
+    if (!/budget|time/i.test(e instanceof Error ? e.message : String(e))) active.parse.set(key, {});
     return undefined;
   }
 }
@@ -260,10 +338,17 @@ function tryParse(text: string, language: Language, variable: string | undefined
 function catalogueForward(name: string): Formula | undefined {
   const n = name.toLowerCase().replace(/^_+|_+$/g, '');
   if (!/^[a-z][a-z0-9_]*$/.test(n)) return undefined;
+  const key = keyOf('cat', n);
+  const hit = active.parse.get(key);
+  if (hit) return hit.f;
   try {
     const f = parseFormula(`${n}(x)`, { variable: 'x' });
-    return f.recognised || f.node ? f : undefined;
+    const out = f.recognised || f.node ? f : undefined;
+    if (out) formulaKeys.set(out, key);
+    active.parse.set(key, out ? { f: out } : {});
+    return out;
   } catch {
+    active.parse.set(key, {});
     return undefined;
   }
 }
@@ -350,6 +435,27 @@ function derivativesByUse(model: SourceModel, reads: Read[]): Map<Read, Read> {
   return out;
 }
 
+/**
+ * Parameter values from the first call site that passes a number (or a file constant) for them:
+ * `leaky(z, 0.2)` or `leaky(z, a=0.2)` binds `a` of `def leaky(x, a)`.
+ */
+function callSiteParams(c: CodeFormula, calls: Call[], constants: Record<string, number>): Record<string, number> {
+  const names = c.fn.params.map((p) => p.name).filter((n) => !['self', 'ctx', 'cls', 'this'].includes(n));
+  const out: Record<string, number> = {};
+  for (const call of calls) {
+    if (call.name !== c.fn.name || (call.start >= c.fn.start && call.end <= c.fn.end)) continue;
+    call.args.forEach((a, i) => {
+      const eq = /^([A-Za-z_]\w*)=([^=].*)$/.exec(a);
+      const name = eq ? eq[1]! : names[i];
+      const text = eq ? eq[2]! : a;
+      if (!name || name === c.variable || name in out || c.upstream.includes(name)) return;
+      const v = text in constants ? constants[text] : parseNumber(text);
+      if (v !== undefined && Number.isFinite(v)) out[name] = v;
+    });
+  }
+  return out;
+}
+
 interface Call { name: string; args: string[]; start: number; end: number; line: number }
 
 function callsIn(toks: Token[]): Call[] {
@@ -357,7 +463,7 @@ function callsIn(toks: Token[]): Call[] {
   for (let i = 0; i + 1 < toks.length; i++) {
     const t = toks[i]!;
     if (t.kind !== 'id' || toks[i + 1]!.text !== '(') continue;
-    if (toks[i - 1]?.text === 'def' || toks[i - 1]?.text === 'function' || toks[i - 1]?.text === 'fn' || toks[i - 1]?.text === 'func') continue;
+    if (['def', 'function', 'fn', 'func', 'fun'].includes(toks[i - 1]?.text ?? '')) continue;
     const close = matchClose(toks, i + 1);
     if (close < 0) continue;
     const args = splitArgs(toks.slice(i + 2, close)).map((a) => a.map((x) => x.text).join(''));
@@ -416,7 +522,22 @@ function defaultVariations(fwd: Read | undefined, d: Read): Record<string, numbe
   return Object.keys(alt).length > 0 ? [{}, alt] : [{}];
 }
 
+/**
+ * Cached by everything the comparison reads: both formulas (by the keys they were parsed under,
+ * which cover text, notation, variable and bindings), the argument hint and whether it is certain,
+ * the upstream names, and the defaults both sides declare (defaultVariations). Not a single
+ * position or name from the file enters the result, so reusing it across edits and files is exact.
+ */
 function compareDerivative(fwd: Formula, d: Read, upstream: string[], fwdRead?: Read): Verdict | undefined {
+  const fk = formulaKeys.get(fwd);
+  const dk = formulaKeys.get(d.formula);
+  const key = fk !== undefined && dk !== undefined
+    ? keyOf('v', fk, dk, d.argument, d.argumentCertain === true, upstream.join(','), paramsKey(fwdRead?.code?.params), paramsKey(d.code?.params))
+    : undefined;
+  return memo(active.verdict, key, () => ({ v: compareDerivativeUncached(fwd, d, upstream, fwdRead) })).v;
+}
+
+function compareDerivativeUncached(fwd: Formula, d: Read, upstream: string[], fwdRead?: Read): Verdict | undefined {
   let best: Verdict | undefined;
   for (const variation of defaultVariations(fwdRead, d)) {
     const v = compareDerivativeOnce(withParams(fwd, variation), { ...d, formula: withParams(d.formula, variation) }, upstream);
@@ -534,6 +655,13 @@ function guardedPoints(node: MathNode, x: string, params: Record<string, number>
 
 /** Compare a comment formula with the code function under it (same role), variable by position. */
 function compareSame(code: Read, comment: Read): Comparison | undefined {
+  const ck = formulaKeys.get(code.formula);
+  const mk = formulaKeys.get(comment.formula);
+  const key = ck !== undefined && mk !== undefined ? keyOf('s', ck, mk) : undefined;
+  return memo(active.same, key, () => ({ c: compareSameUncached(code, comment) })).c;
+}
+
+function compareSameUncached(code: Read, comment: Read): Comparison | undefined {
   const shared = [...new Set([...code.formula.unbound, ...comment.formula.unbound])];
   let worst: Comparison | undefined;
   for (const assign of sampleAssignments(shared)) {
@@ -572,12 +700,32 @@ function fmt(v: number): string {
   return Number(v.toPrecision(6)).toString();
 }
 
-function display(node: MathNode): string {
-  try {
-    return simplifyWithinBudget(node, { budgetMs: 150 }).node.toString();
-  } catch {
-    return node.toString();
+const cleaned = new WeakMap<MathNode, MathNode>();
+
+/**
+ * The expected derivative as shown in a finding and emitted in a fix: the engine's light cleanup
+ * (constant folding, ±0/±1 identities, σ/exp forms tidied; linear in the tree) instead of a full
+ * simplification. Full simplification cost 10–150 ms per finding and, on the trees differentiate
+ * produces, printed the same text as the cleanup in every case measured (softplus′, σ′, tanh′, mish′,
+ * polynomials); it is also what simplifyWithinBudget itself falls back to when its budget runs out.
+ * Both are equal in value to the tree (the cleanup only applies identities), so the fix is correct.
+ * Memoised by tree identity (trees come from the verdict cache and are immutable).
+ */
+function clean(node: MathNode): MathNode {
+  let c = cleaned.get(node);
+  if (!c) {
+    try {
+      c = lightClean(node);
+    } catch {
+      c = node;
+    }
+    cleaned.set(node, c);
   }
+  return c;
+}
+
+function display(node: MathNode): string {
+  return clean(node).toString();
 }
 
 function mismatchFinding(d: Read, fwd: Read, v: Verdict, text: string, language: Language): Finding {
@@ -616,7 +764,7 @@ function derivativeFix(d: Read, v: Verdict, text: string, language: Language): F
   const fwdVar = v.expected;
   try {
     // the expected derivative in the derivative's own variable name
-    let node = simplifyWithinBudget(fwdVar, { budgetMs: 150 }).node;
+    let node = clean(fwdVar);
     const dv = d.formula.variable;
     if (dv !== v.variable) node = parseFormula(replaceSymbol(node.toString(), v.variable, dv), { variable: dv }).node;
     let code = emitCode(node, el, { params: {} });
@@ -679,19 +827,67 @@ function callSiteFindings(model: SourceModel, d: Read, fwd: Read, forwards: Read
   return out;
 }
 
+/** What the float analysis of one formula found, independent of where the formula is. */
+interface UnstableCore {
+  title: string;
+  expression: string;
+  where: string;
+  types: string[];
+}
+
+/**
+ * Does the tree call exp or log? Every stable rewrite pattern (analysis/patterns.ts `match`:
+ * softplus, log-sigmoid, sigmoid, log-sum-exp, tanh from exponentials, log1p, expm1) needs an `exp`
+ * or a `log` call, so a tree with neither cannot get a suggestion and its breakdown scan is skipped.
+ */
+export function mayHaveStableRewrite(node: MathNode): boolean {
+  let yes = false;
+  node.traverse((n) => {
+    if (!yes && n.type === 'FunctionNode') {
+      const name = (n as unknown as { fn: { name: string } }).fn.name;
+      if (name === 'exp' || name === 'log') yes = true;
+    }
+  });
+  return yes;
+}
+
 function unstable(r: Read, text: string, language: Language): Finding | undefined {
   if (r.formula.unbound.length > 0) return undefined;
+  const fk = formulaKeys.get(r.formula);
+  const core = memo(active.unstable, fk, () => ({ u: unstableCore(r.formula) })).u;
+  if (!core) return undefined;
+  const f: Finding = {
+    rule: 'unstable-form', severity: 'warning', span: r.span,
+    message: MESSAGES.unstable(r.name, core.title, core.where, core.types.join(', ')),
+    expected: core.expression, found: r.formula.expression,
+  };
+  const el = emitLanguageFor(language, text);
+  const fn = r.code?.fn;
+  const ret = fn ? (fn.exprBody ?? (fn.body.length === 1 && fn.body[0]!.k === 'return' ? fn.body[0]!.expr : undefined)) : undefined;
+  if (el && ret && ret.length > 0) {
+    try {
+      const node = parseFormula(core.expression, { variable: r.formula.variable }).node;
+      const toks = ret.filter((t) => t.kind !== 'nl' && t.text !== ';');
+      f.fix = { title: MESSAGES.stableFixTitle(core.title), span: { start: toks[0]!.start, end: toks[toks.length - 1]!.end }, text: emitCode(node, el, { params: {} }) };
+    } catch { /* no fix */ }
+  }
+  return f;
+}
+
+function unstableCore(formula: Formula): UnstableCore | undefined {
+  if (!mayHaveStableRewrite(formula.node)) return undefined;
   let suggestions;
   try {
-    suggestions = stableRewrites(r.formula.node, null, r.formula.variable, r.formula.parameters, FLOAT_TYPES, [-100, 100]);
+    suggestions = stableRewrites(formula.node, null, formula.variable, formula.parameters, FLOAT_TYPES, [-100, 100]);
   } catch {
     return undefined;
   }
+  if (suggestions.length === 0) return undefined;
   // Only breakdowns that hurt training: ±∞ or NaN in some type, or a wrong value (0 or > 1e-2 relative
   // error) over an interval at least SEVERE_WIDTH long in float32. Tiny subnormal tails are not reported.
   // A lost value matters only where the value itself matters: at least SIGNIFICANT × the function's
   // peak magnitude on [−6, 6] (a gradient of 1e-7 computed to 2 digits does not change training).
-  const exact = compileScalar(r.formula.node, r.formula.variable, r.formula.parameters);
+  const exact = compileScalar(formula.node, formula.variable, formula.parameters);
   let peak = 0;
   for (let x = -6; x <= 6; x += 0.05) { const v = Math.abs(exact(x)); if (Number.isFinite(v)) peak = Math.max(peak, v); }
   const severe = (b: { from: number | null; to: number | null; kind: string }, t: string): boolean => {
@@ -708,28 +904,26 @@ function unstable(r: Read, text: string, language: Language): Finding | undefine
   const types = FLOAT_TYPES.filter((t) => (s.before[t] ?? []).some((b) => severe(b, t)));
   const first = types.map((t) => ({ t, b: s.before[t]!.find((b) => severe(b, t))! }))[0];
   const where = first ? MESSAGES.breakdownAt(first.t, first.b.kind, first.b.from, first.b.to) : '';
-  const f: Finding = {
-    rule: 'unstable-form', severity: 'warning', span: r.span,
-    message: MESSAGES.unstable(r.name, s.title, where, types.join(', ')),
-    expected: s.expression, found: r.formula.expression,
-  };
-  const el = emitLanguageFor(language, text);
-  const fn = r.code?.fn;
-  const ret = fn ? (fn.exprBody ?? (fn.body.length === 1 && fn.body[0]!.k === 'return' ? fn.body[0]!.expr : undefined)) : undefined;
-  if (el && ret && ret.length > 0) {
-    try {
-      const node = parseFormula(s.expression, { variable: r.formula.variable }).node;
-      const toks = ret.filter((t) => t.kind !== 'nl' && t.text !== ';');
-      f.fix = { title: MESSAGES.stableFixTitle(s.title), span: { start: toks[0]!.start, end: toks[toks.length - 1]!.end }, text: emitCode(node, el, { params: {} }) };
-    } catch { /* no fix */ }
-  }
-  return f;
+  return { title: s.title, expression: s.expression, where, types };
 }
+
+/** What the pairing analysis of one formula found, independent of where the formula is. */
+interface VanishingCore { act: string; loss: string; message: string | undefined }
 
 /** Squared (or absolute) error applied to a saturating activation: `(σ(z) − y)²`. */
 function vanishing(r: Read): Finding | undefined {
-  const node = r.formula.node;
-  const v = r.formula.variable;
+  const core = memo(active.vanishing, formulaKeys.get(r.formula), () => ({ w: vanishingCore(r.formula) })).w;
+  if (!core) return undefined;
+  return {
+    rule: 'vanishing-pair', severity: 'warning', span: r.span,
+    message: MESSAGES.vanishing(r.name, core.act, core.loss, core.message),
+    found: r.formula.expression,
+  };
+}
+
+function vanishingCore(formula: Formula): VanishingCore | undefined {
+  const node = formula.node;
+  const v = formula.variable;
   let hit: { act: MathNode; loss: string } | undefined;
   node.traverse((n) => {
     if (hit) return;
@@ -751,14 +945,10 @@ function vanishing(r: Read): Finding | undefined {
   });
   if (!hit) return undefined;
   try {
-    const act = parseFormula(hit.act.toString(), { variable: v, params: r.formula.parameters });
+    const act = parseFormula(hit.act.toString(), { variable: v, params: formula.parameters });
     const pa = analyzePairing(act, hit.loss);
     if (!pa.starves) return undefined;
-    return {
-      rule: 'vanishing-pair', severity: 'warning', span: r.span,
-      message: MESSAGES.vanishing(r.name, act.recognised ?? act.expression, hit.loss, pa.message),
-      found: r.formula.expression,
-    };
+    return { act: act.recognised ?? act.expression, loss: hit.loss, message: pa.message };
   } catch {
     return undefined;
   }

@@ -93,69 +93,126 @@ interface GenContext {
   /** Rounds a constant at compile time (identity for double precision). */
   roundConst: (v: number) => number;
   depth: number;
+  /**
+   * Double precision only: small integer powers (and square, cube) become multiplications. x·x·x
+   * can differ from Math.pow(x, 3) by an ulp, so the rounded (as-written) evaluator never sets it.
+   */
+  fastPow?: boolean;
 }
 
 const MAX_DEPTH = 400;
+/** |n| up to which x^n is written as multiplications in double precision. */
+const MAX_FAST_POW = 4;
 
 function refuse(what: string): never {
   throw new SlopewiseError('not-allowed', `cannot evaluate ${what}: only numbers, the variable, parameters, arithmetic, comparisons, conditionals and whitelisted functions are allowed`);
 }
 
-function gen(node: MathNode, ctx: GenContext): string {
-  if (ctx.depth > MAX_DEPTH) throw new SlopewiseError('too-deep', 'expression is nested too deeply to evaluate');
-  ctx.depth++;
-  try {
-    return genNode(node, ctx);
-  } finally {
-    ctx.depth--;
-  }
+/**
+ * One whitelisted operation of the tree: its operands (sub-trees, evaluated in order) and how its
+ * JS source is made from the operands' sources. `sig` identifies the operation itself (not its
+ * operands), so `sig` plus the operands' identities is a canonical key for common subexpressions.
+ */
+interface Op {
+  sig: string;
+  operands: MathNode[];
+  emit: (args: string[]) => string;
+  /** A literal or a variable: no operands, nothing to compute. */
+  leaf?: true;
+  /** `c ? a : b`, operands [c, a, b]. */
+  conditional?: true;
+  /** A comparison's JS operator: as a condition it is used as a boolean, without the 1/0. */
+  compare?: string;
+  /** x^n, n a small integer (fastPow only): the single operand must be a local or a literal. */
+  power?: number;
 }
 
-function genNode(node: MathNode, ctx: GenContext): string {
+function skipParens(node: MathNode): MathNode {
+  let n = node as MathNode & { content?: MathNode };
+  while (n.type === 'ParenthesisNode') n = n.content as MathNode & { content?: MathNode };
+  return n;
+}
+
+/** The value of a constant exponent (a number, -number, or a bound parameter), else undefined. */
+function constantExponent(node: MathNode, ctx: GenContext): number | undefined {
+  const n = skipParens(node) as MathNode & Record<string, unknown>;
+  if (n.type === 'ConstantNode' && typeof n['value'] === 'number') return n['value'] as number;
+  if (n.type === 'OperatorNode' && n['fn'] === 'unaryMinus') {
+    const inner = constantExponent((n['args'] as MathNode[])[0] as MathNode, ctx);
+    return inner === undefined ? undefined : -inner;
+  }
+  if (n.type === 'SymbolNode') {
+    const name = n['name'] as string;
+    if (!ctx.locals.has(name) && Object.prototype.hasOwnProperty.call(ctx.params, name) && typeof ctx.params[name] === 'number') return ctx.params[name];
+  }
+  return undefined;
+}
+
+function smallPower(exponent: MathNode, ctx: GenContext): number | undefined {
+  if (!ctx.fastPow) return undefined;
+  const k = constantExponent(exponent, ctx);
+  return k !== undefined && Number.isInteger(k) && k !== 0 && Math.abs(k) <= MAX_FAST_POW ? k : undefined;
+}
+
+/** `b^n` as multiplications; `b` is a local or a literal. 1/(b·b) keeps pow's signed zeros and infinities. */
+function powerSource(b: string, n: number): string {
+  const prod = Array.from({ length: Math.abs(n) }, () => b).join(' * ');
+  return n > 0 ? `(${prod})` : `(1 / (${prod}))`;
+}
+
+const leaf = (sig: string): Op => ({ sig, operands: [], emit: () => sig, leaf: true });
+
+/** Checks `node` against the whitelist and describes it (ParenthesisNode already skipped). */
+function describe(node: MathNode, ctx: GenContext): Op {
   const n = node as MathNode & Record<string, unknown>;
   switch (node.type) {
     case 'ConstantNode': {
       const v = n['value'];
       if (typeof v !== 'number') refuse(`the constant ${String(v)}`);
-      return numberLiteral(ctx.roundConst(v as number));
+      return leaf(numberLiteral(ctx.roundConst(v as number)));
     }
     case 'SymbolNode': {
       const name = n['name'] as string;
       const local = ctx.locals.get(name);
-      if (local !== undefined) return local;
+      if (local !== undefined) return leaf(local);
       if (Object.prototype.hasOwnProperty.call(ctx.params, name)) {
         const v = ctx.params[name];
         if (typeof v !== 'number') refuse(`parameter ${name}`);
-        return numberLiteral(ctx.roundConst(v));
+        return leaf(numberLiteral(ctx.roundConst(v)));
       }
-      if (Object.prototype.hasOwnProperty.call(CONSTANTS, name)) return numberLiteral(ctx.roundConst(CONSTANTS[name] as number));
+      if (Object.prototype.hasOwnProperty.call(CONSTANTS, name)) return leaf(numberLiteral(ctx.roundConst(CONSTANTS[name] as number)));
       throw new SlopewiseError('bad-argument', `no value for the symbol ${name}: give it with --param ${name}=value`);
     }
-    case 'ParenthesisNode':
-      return gen(n['content'] as MathNode, ctx);
-    case 'ConditionalNode': {
-      const c = gen(n['condition'] as MathNode, ctx);
-      const a = gen(n['trueExpr'] as MathNode, ctx);
-      const b = gen(n['falseExpr'] as MathNode, ctx);
-      return `((${c}) ? (${a}) : (${b}))`;
-    }
+    case 'ConditionalNode':
+      return {
+        sig: '?:',
+        operands: [n['condition'] as MathNode, n['trueExpr'] as MathNode, n['falseExpr'] as MathNode],
+        emit: ([c, a, b]) => `((${c}) ? (${a}) : (${b}))`,
+        conditional: true,
+      };
     case 'OperatorNode': {
       const fn = n['fn'] as string;
-      const args = (n['args'] as MathNode[]).map((a) => gen(a, ctx));
-      if (fn === 'unaryMinus' && args.length === 1) return `(-(${args[0]}))`;
-      if (fn === 'unaryPlus' && args.length === 1) return `(+(${args[0]}))`;
-      if (fn === 'not' && args.length === 1) return `((${args[0]}) ? 0 : 1)`;
-      if (args.length !== 2) refuse(`the operator ${String(n['op'])}`);
-      const [a, b] = args as [string, string];
+      const operands = n['args'] as MathNode[];
+      const op = (sig: string, emit: Op['emit'], extra?: Partial<Op>): Op => ({ sig, operands, emit, ...extra });
+      if (operands.length === 1) {
+        if (fn === 'unaryMinus') return op('neg', ([a]) => `(-(${a}))`);
+        if (fn === 'unaryPlus') return op('pos', ([a]) => `(+(${a}))`);
+        if (fn === 'not') return op('not', ([a]) => `((${a}) ? 0 : 1)`);
+      }
+      if (operands.length !== 2) refuse(`the operator ${String(n['op'])}`);
       const arith = ARITH[fn];
-      if (arith !== undefined) return ctx.round(`(${a}) ${arith} (${b})`, node);
-      if (fn === 'pow' || fn === 'dotPow') return ctx.round(`Math.pow(${a}, ${b})`, node);
-      if (fn === 'mod') return ctx.round(`H_mod(${a}, ${b})`, node);
+      if (arith !== undefined) return op(arith, ([a, b]) => ctx.round(`(${a}) ${arith} (${b})`, node));
+      if (fn === 'pow' || fn === 'dotPow') {
+        const k = smallPower(operands[1] as MathNode, ctx);
+        if (k !== undefined) return { sig: `^${k}`, operands: [operands[0] as MathNode], emit: ([b]) => powerSource(b as string, k), power: k };
+        return op('pow', ([a, b]) => ctx.round(`Math.pow(${a}, ${b})`, node));
+      }
+      if (fn === 'mod') return op('mod', ([a, b]) => ctx.round(`H_mod(${a}, ${b})`, node));
       const cmp = COMPARE[fn];
-      if (cmp !== undefined) return `((${a}) ${cmp} (${b}) ? 1 : 0)`;
-      if (fn === 'and') return `((${a}) && (${b}) ? 1 : 0)`;
-      if (fn === 'or') return `((${a}) || (${b}) ? 1 : 0)`;
-      if (fn === 'xor') return `(!(${a}) !== !(${b}) ? 1 : 0)`;
+      if (cmp !== undefined) return op(cmp, ([a, b]) => `((${a}) ${cmp} (${b}) ? 1 : 0)`, { compare: cmp });
+      if (fn === 'and') return op('and', ([a, b]) => `((${a}) && (${b}) ? 1 : 0)`);
+      if (fn === 'or') return op('or', ([a, b]) => `((${a}) || (${b}) ? 1 : 0)`);
+      if (fn === 'xor') return op('xor', ([a, b]) => `(!(${a}) !== !(${b}) ? 1 : 0)`);
       return refuse(`the operator ${String(n['op'])}`);
     }
     case 'FunctionNode': {
@@ -164,15 +221,30 @@ function genNode(node: MathNode, ctx: GenContext): string {
       const name = fnNode.name as string;
       const arity = Object.prototype.hasOwnProperty.call(FUNCTIONS, name) ? FUNCTIONS[name] : undefined;
       if (arity === undefined) throw new SlopewiseError('unknown-function', `cannot evaluate the function ${name}`);
-      const rawArgs = n['args'] as MathNode[];
-      if (rawArgs.length < arity[0] || rawArgs.length > arity[1]) {
-        throw new SlopewiseError('bad-argument', `${name} takes ${arity[0] === arity[1] ? arity[0] : `${arity[0]} or more`} argument(s), got ${rawArgs.length}`);
+      const operands = n['args'] as MathNode[];
+      if (operands.length < arity[0] || operands.length > arity[1]) {
+        throw new SlopewiseError('bad-argument', `${name} takes ${arity[0] === arity[1] ? arity[0] : `${arity[0]} or more`} argument(s), got ${operands.length}`);
       }
-      const args = rawArgs.map((a) => gen(a, ctx));
-      return genCall(name, args, ctx, node);
+      if (ctx.fastPow && (name === 'square' || name === 'cube')) {
+        const k = name === 'square' ? 2 : 3;
+        return { sig: `^${k}`, operands, emit: ([b]) => powerSource(b as string, k), power: k };
+      }
+      return { sig: `${name}/${operands.length}`, operands, emit: (args) => genCall(name, args, ctx, node) };
     }
     default:
       return refuse(`a ${node.type}`);
+  }
+}
+
+/** Straightforward generation: the tree as written, one expression, every occurrence computed. */
+function gen(node: MathNode, ctx: GenContext): string {
+  if (ctx.depth > MAX_DEPTH) throw new SlopewiseError('too-deep', 'expression is nested too deeply to evaluate');
+  ctx.depth++;
+  try {
+    const op = describe(skipParens(node), ctx);
+    return op.emit(op.operands.map((a) => gen(a, ctx)));
+  } finally {
+    ctx.depth--;
   }
 }
 
@@ -201,6 +273,163 @@ function genCall(name: string, args: string[], ctx: GenContext, node: MathNode):
   }
 }
 
+// ─── double precision: shared sub-trees computed once ────────────────────────────────────────────
+
+/** A distinct sub-tree (hash-consed by its operation and its operands' ids). */
+interface DagNode {
+  op: Op;
+  operands: number[];
+  /** How many times an operand slot of some node refers to this one (the root counts once). */
+  uses: number;
+  /**
+   * Where it is computed: the branches (`<conditional id><T|F>`) that must have been taken. The
+   * longest common prefix of its users' places, so a sub-tree shared by both branches of a
+   * conditional (or by its condition and a branch) is computed before the conditional, and one used
+   * in a single branch stays inside it.
+   */
+  place?: string[];
+}
+
+const isConstantLeaf = (d: DagNode): boolean => d.op.leaf === true && !/^v\d+$/.test(d.op.sig);
+
+/** Constant folding's evaluations, by source (the same few constants recur in every derivative). */
+const constantCache = new Map<string, number>();
+
+/** The value of generated source `src` that refers to no variable (numbers, Math.*, helpers only). */
+function evaluateConstant(src: string): number {
+  const hit = constantCache.get(src);
+  if (hit !== undefined) return hit;
+  // Our own source, from a checked tree: numeric literals, Math.* and the helpers.
+  const f = new Function('H_erf', 'H_mod', 'H_sign', `return ${src};`) as (...h: unknown[]) => unknown;
+  const v = f(HELPERS.erf, HELPERS.mod, HELPERS.sign);
+  if (typeof v !== 'number') throw new SlopewiseError('not-allowed', 'a constant sub-expression did not evaluate to a number');
+  if (constantCache.size >= 4096) constantCache.clear();
+  constantCache.set(src, v);
+  return v;
+}
+
+function buildDag(root: MathNode, ctx: GenContext): { nodes: DagNode[]; root: number } {
+  const nodes: DagNode[] = [];
+  const ids = new Map<string, number>();
+  const visit = (node: MathNode, depth: number): number => {
+    if (depth > MAX_DEPTH) throw new SlopewiseError('too-deep', 'expression is nested too deeply to evaluate');
+    let op = describe(skipParens(node), ctx);
+    const operands = op.operands.map((a) => visit(a, depth + 1));
+    // Operations on constants only (√2, 2/π, …) are computed now, with the same JS they would run.
+    if (!op.leaf && operands.every((o) => isConstantLeaf(nodes[o] as DagNode))) {
+      op = leaf(numberLiteral(evaluateConstant(op.emit(operands.map((o) => (nodes[o] as DagNode).op.sig)))));
+    }
+    const key = op.leaf ? `=${op.sig}` : `${op.sig}(${operands.join(',')})`;
+    let id = ids.get(key);
+    if (id === undefined) {
+      id = nodes.length;
+      nodes.push({ op, operands, uses: 0 });
+      ids.set(key, id);
+      for (const o of operands) (nodes[o] as DagNode).uses++;
+    }
+    return id;
+  };
+  const rootId = visit(root, 0);
+  (nodes[rootId] as DagNode).uses++;
+  // Ids are in post-order (operands before users), so descending ids visit users first.
+  (nodes[rootId] as DagNode).place = [];
+  for (let id = rootId; id >= 0; id--) {
+    const d = nodes[id] as DagNode;
+    if (d.place === undefined) continue; // not reachable (cannot happen: every node was made for a user)
+    d.operands.forEach((o, slot) => {
+      const want = d.op.conditional && slot > 0 ? [...(d.place as string[]), `${id}${slot === 1 ? 'T' : 'F'}`] : (d.place as string[]);
+      const od = nodes[o] as DagNode;
+      if (od.place === undefined) od.place = want;
+      else {
+        let k = 0;
+        while (k < od.place.length && k < want.length && od.place[k] === want[k]) k++;
+        od.place = od.place.slice(0, k);
+      }
+    });
+  }
+  return { nodes, root: rootId };
+}
+
+const ATOM = /^(v\d+|t\d+|NaN|Infinity|\(-?(Infinity|0)\)|\(?-?[\d.]+(e[+-]?\d+)?\)?)$/;
+
+/**
+ * JS statements and a result expression computing `root` with every repeated sub-tree computed once
+ * (`const tN = …`), placed in the innermost block all its uses share.
+ */
+function genShared(root: MathNode, ctx: GenContext): { statements: string; result: string } {
+  const { nodes, root: rootId } = buildDag(root, ctx);
+  /** Open blocks, outermost first; `stack[k]` is the block at depth k of a place. */
+  let stack: string[][] = [[]];
+  const names = new Map<number, string>();
+  let temps = 0;
+  const fresh = (): string => `t${temps++}`;
+
+  const expr = (id: number): string => {
+    const d = nodes[id] as DagNode;
+    if (d.op.leaf) return d.op.emit([]);
+    const known = names.get(id);
+    if (known !== undefined) return known;
+    const shared = d.uses > 1;
+    const depth = (d.place as string[]).length;
+    // A shared node is computed in its own place, which is an open block at or above this point.
+    const saved = stack;
+    if (shared) stack = stack.slice(0, depth + 1);
+    try {
+      const src = compute(id, d);
+      if (!shared) return src;
+      const name = fresh();
+      (stack[depth] as string[]).push(`const ${name} = ${src};`);
+      names.set(id, name);
+      return name;
+    } finally {
+      stack = saved;
+    }
+  };
+
+  const condition = (id: number): string => {
+    const d = nodes[id] as DagNode;
+    if (d.op.compare !== undefined && d.uses === 1) {
+      const [a, b] = d.operands.map(expr) as [string, string];
+      return `(${a}) ${d.op.compare} (${b})`;
+    }
+    return expr(id);
+  };
+
+  const compute = (id: number, d: DagNode): string => {
+    if (d.op.conditional) {
+      const [c, t, f] = d.operands as [number, number, number];
+      const cond = condition(c);
+      const branch = (o: number): { stmts: string[]; value: string } => {
+        const stmts: string[] = [];
+        stack.push(stmts);
+        try {
+          return { stmts, value: expr(o) };
+        } finally {
+          stack.pop();
+        }
+      };
+      const a = branch(t);
+      const b = branch(f);
+      if (a.stmts.length === 0 && b.stmts.length === 0) return `((${cond}) ? (${a.value}) : (${b.value}))`;
+      const name = fresh();
+      (stack[stack.length - 1] as string[]).push(
+        `let ${name}; if (${cond}) { ${a.stmts.join(' ')} ${name} = ${a.value}; } else { ${b.stmts.join(' ')} ${name} = ${b.value}; }`,
+      );
+      return name;
+    }
+    let args = d.operands.map(expr);
+    if (d.op.power !== undefined && !ATOM.test(args[0] as string)) {
+      const name = fresh();
+      (stack[stack.length - 1] as string[]).push(`const ${name} = ${args[0]};`);
+      args = [name];
+    }
+    return d.op.emit(args);
+  };
+
+  const result = expr(rootId);
+  return { statements: (stack[0] as string[]).join(' '), result };
+}
+
 function build(node: MathNode, vars: readonly string[], params: Record<string, number>, type: FloatType | null): { source: string; fn: MultiFn } {
   const locals = new Map<string, string>();
   vars.forEach((v, i) => {
@@ -214,12 +443,20 @@ function build(node: MathNode, vars: readonly string[], params: Record<string, n
     round: R === null ? (s) => `(${s})` : (s) => `R(${s})`,
     roundConst: R === null ? (v) => v : R,
     depth: 0,
+    fastPow: R === null,
   };
-  const body = gen(node, ctx);
   const argList = vars.map((_, i) => `v${i}`).join(', ');
-  const inputRounding = R === null ? '' : vars.map((_, i) => `v${i} = R(v${i}); `).join('');
-  const source = `return function compiled(${argList}) { ${inputRounding}return ${body}; };`;
-  // The source is ours: numbers from numberLiteral, locals v0…, Math.* and the helpers below.
+  let body: string;
+  if (R === null) {
+    // Double precision: repeated sub-trees once, small integer powers as products.
+    const { statements, result } = genShared(node, ctx);
+    body = `${statements} return ${result};`;
+  } else {
+    // Rounded: the tree as written, one rounding per operation, nothing rearranged.
+    body = `${vars.map((_, i) => `v${i} = R(v${i}); `).join('')}return ${gen(node, ctx)};`;
+  }
+  const source = `return function compiled(${argList}) { ${body} };`;
+  // The source is ours: numbers from numberLiteral, locals v0… and t0…, Math.* and the helpers below.
   const factory = new Function('R', 'H_erf', 'H_mod', 'H_sign', source) as (...h: unknown[]) => MultiFn;
   const fn = factory(R, HELPERS.erf, HELPERS.mod, HELPERS.sign);
   return { source, fn };

@@ -5,7 +5,7 @@
  */
 import type { MathNode } from 'mathjs';
 import { mark } from './markers';
-import { polishForDisplay, setPrintedLength } from './polish';
+import { displayScore, polishForDisplay, setPrintedLength } from './polish';
 import { args, condParts, fnName, isNum, numValue, opFn, symName, isOpNode } from './nodes';
 import { ASCII_TO_GREEK } from './notation/unicode';
 
@@ -87,7 +87,8 @@ function print(n: MathNode, opts: DisplayOptions): string {
       const f = opFn(n);
       const a = args(n);
       const p = PREC[f] ?? 9;
-      if (f === 'unaryMinus') return `−${wrap(a[0] as MathNode, p + 1, opts)}`;
+      // −(2·u/v) reads −2·u/v: negation commutes with products and quotients.
+      if (f === 'unaryMinus') return `−${wrap(a[0] as MathNode, PREC.multiply as number, opts)}`;
       if (f === 'unaryPlus') return wrap(a[0] as MathNode, p, opts);
       if (f === 'not') return `not ${wrap(a[0] as MathNode, p, opts)}`;
       if (f === 'pow') {
@@ -97,6 +98,12 @@ function print(n: MathNode, opts: DisplayOptions): string {
           return b + [...String(numValue(ex))].map((c) => SUPER[c] ?? c).join('');
         }
         return `${b}^${wrap(ex, p + 1, opts)}`;
+      }
+      if (f === 'divide' && a.length === 2 && a.every((x) => isNum(x) && Number.isInteger(numValue(x)) && numValue(x) !== 0 && Math.abs(numValue(x)) < 1e9)) {
+        // 2/6 → 1/3 (integers only, so the printed fraction is exactly the value).
+        const [p0, q0] = a.map(numValue) as [number, number];
+        const g = gcdInt(Math.abs(p0), Math.abs(q0));
+        if (g > 1) return `${formatNumber(p0 / g)}/${formatNumber(q0 / g)}`;
       }
       const sep = OPS[f] ?? ` ${f} `;
       const left = wrap(a[0] as MathNode, p, opts);
@@ -110,6 +117,10 @@ function print(n: MathNode, opts: DisplayOptions): string {
     default:
       return n.toString();
   }
+}
+
+function gcdInt(a: number, b: number): number {
+  return b === 0 ? a : gcdInt(b, a % b);
 }
 
 function wrap(n: MathNode, min: number, opts: DisplayOptions): string {
@@ -128,11 +139,21 @@ export function displayForm(node: MathNode, opts: DisplayOptions = {}): string {
  * Display of a derivative: the polished tree (constants folded, like terms collected, σ/tanh
  * factors, φ/Φ named; see polish.ts) when it prints shorter than the tree as derived, else that.
  */
-export function derivativeDisplayForm(node: MathNode, opts: DisplayOptions = {}): string {
+export function derivativeDisplayForm(node: MathNode, opts: DisplayOptions = {}, maxLength = Infinity): string {
+  return derivativeDisplayTree(node, opts, maxLength).text;
+}
+
+/**
+ * The display tree behind `derivativeDisplayForm` and its text: the polished tree when it reads
+ * better (displayScore) and prints no longer than `maxLength`, else the marked tree as derived.
+ */
+export function derivativeDisplayTree(node: MathNode, opts: DisplayOptions = {}, maxLength = Infinity): { tree: MathNode; text: string } {
   const marked = mark(node);
   const plain = print(marked, opts);
-  const polished = print(polishForDisplay(marked), opts);
-  return polished.length < plain.length ? polished : plain;
+  const tree = polishForDisplay(marked);
+  const polished = print(tree, opts);
+  if (polished.length <= maxLength && displayScore(tree) < displayScore(marked)) return { tree, text: polished };
+  return { tree: marked, text: plain };
 }
 
 /** LaTeX of a canonical or marked tree (mathjs toTex, σ and softplus collapsed). */

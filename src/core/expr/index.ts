@@ -16,7 +16,6 @@ export type { CatalogueEntry, CatalogueParam } from './catalogue';
 export { toCanonicalText, guessLanguage } from './notation';
 export type { NotationResult } from './notation';
 export { mark, unmark } from './markers';
-export { CATALOGUE_JS, defaultParams, erf as erfJs } from './catalogue-js';
-export type { CatalogueJs } from './catalogue-js';
-export { ADVERSARIAL_FORMULAS, measureEngineWorstCase } from './adversarial';
-export type { EngineTiming } from './adversarial';
+// Bench- and test-only modules (hand-written reference functions, adversarial inputs) are not
+// re-exported here, so they stay out of the extension bundles: import them by path,
+// './catalogue-js' and './adversarial'.

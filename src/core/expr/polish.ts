@@ -15,6 +15,7 @@
  * was), divisions stop after MAX_DIVISION_STEPS. Callers keep whichever display is shorter.
  */
 import type { MathNode } from 'mathjs';
+import { LIMITS } from '../limits';
 import {
   args, children, cond, condParts, countNodes, div, fn, fnName, isCond, isFn, isNum, key, mul, neg, num, numValue, op, opFn,
   pow, rebuild, sub, add, sym, symName,
@@ -23,11 +24,19 @@ import {
 const MAX_INPUT_NODES = 600;
 const MAX_TERMS = 48;
 const MAX_DIVISION_STEPS = 48;
+/** Factoring and regrouping are tried per σ/tanh atom only when a layer has at most this many. */
+const MAX_SPECIAL_ATOMS = 3;
 /** Relative size below which a sum of two coefficients counts as exact cancellation. */
 const CANCEL = 1e-12;
 const SQRT_2PI = Math.sqrt(2 * Math.PI);
 
+const now: () => number = typeof performance !== 'undefined' ? () => performance.now() : () => Date.now();
+
 class Abort extends Error {}
+/** Thrown when the whole polish exceeds MAX_WORK steps: the caller keeps the tree as derived. */
+class OutOfWork extends Error {}
+/** Work budget of one polish (monomial products, conversions): linear-time guard against surprises. */
+const MAX_WORK = 60_000;
 
 /** Monomial: coefficient × Π atom^exponent (exponents are non-zero integers). */
 interface Mono { c: number; e: Map<number, number> }
@@ -52,11 +61,18 @@ function constValue(n: MathNode): number {
       return f && a.length === 1 ? f(constValue(a[0] as MathNode)) : NaN;
     }
     case 'OperatorNode': {
-      const [a, b] = args(n).map(constValue) as [number, number];
+      // Each operand evaluated once, stopping at the first non-constant one (linear time).
+      const vals: number[] = [];
+      for (const x of args(n)) {
+        const v = constValue(x);
+        if (Number.isNaN(v)) return NaN;
+        vals.push(v);
+      }
+      const [a, b] = vals as [number, number];
       switch (opFn(n)) {
         case 'add': return a + b;
         case 'subtract': return a - b;
-        case 'multiply': return args(n).map(constValue).reduce((x, y) => x * y, 1);
+        case 'multiply': return vals.reduce((x, y) => x * y, 1);
         case 'divide': return a / b;
         case 'pow': return a ** b;
         case 'unaryMinus': return -a;
@@ -114,6 +130,18 @@ function monoOnly(p: Poly): Mono | null {
 export class Polisher {
   private atoms: Atom[] = [];
   private byKey = new Map<string, Atom>();
+  private memo = new Map<string, MathNode>();
+  private work = 0;
+
+  constructor(private readonly deadline = Infinity) {}
+
+  private spend(n = 1): void {
+    const before = this.work;
+    this.work += n;
+    if (this.work > MAX_WORK) throw new OutOfWork();
+    // The clock is read every 1024 units of work.
+    if (before >> 10 !== this.work >> 10 && now() > this.deadline) throw new OutOfWork();
+  }
 
   atom(node: MathNode, rank: number, poly?: Poly): number {
     const k = poly ? `P:${polyKey(poly)}` : key(node);
@@ -167,6 +195,7 @@ export class Polisher {
   }
 
   mulPoly(a: Poly, b: Poly): Poly {
+    this.spend(a.size * b.size);
     const p: Poly = new Map();
     for (const x of a.values()) {
       for (const y of b.values()) {
@@ -206,6 +235,7 @@ export class Polisher {
   }
 
   toPoly(n: MathNode): Poly {
+    this.spend();
     if (n.type === 'ParenthesisNode') return this.toPoly(children(n)[0] as MathNode);
     if (n.type !== 'ConstantNode' && !(n.type === 'SymbolNode')) {
       const v = constValue(n);
@@ -287,6 +317,18 @@ export class Polisher {
   /** Polished tree of any node (falls back to the node with polished children on overflow). */
   polishNode(n: MathNode): MathNode {
     if (n.type === 'ConstantNode' || n.type === 'SymbolNode') return n;
+    // Memoised by structure, and a polished tree counts as polished: without this, nested calls
+    // (e^(e^(…))) would re-polish every inner argument at every level, doubling per level.
+    const k = key(n);
+    const hit = this.memo.get(k);
+    if (hit) return hit;
+    const out = this.polishUncached(n);
+    this.memo.set(k, out);
+    this.memo.set(key(out), out);
+    return out;
+  }
+
+  private polishUncached(n: MathNode): MathNode {
     if (n.type === 'OperatorNode' && !['add', 'subtract', 'multiply', 'divide', 'pow', 'unaryMinus', 'unaryPlus'].includes(opFn(n))) {
       return rebuild(n, args(n).map((x) => this.polishNode(x)));
     }
@@ -321,6 +363,7 @@ export class Polisher {
     const quotient: Poly = new Map();
     for (let step = 0; rest.size > 0; step++) {
       if (step >= MAX_DIVISION_STEPS) return null;
+      this.spend(rest.size);
       const lp = top(rest);
       const e = new Map(lp.e);
       for (const [id, k] of ld.e) bump(e, id, -k);
@@ -386,9 +429,11 @@ export class Polisher {
     }
     const negative = withCoef && m.c < 0;
     let c = withCoef ? Math.abs(m.c) : 1;
-    // 0.5·u → u/2: reciprocals of small integers read better as divisions.
+    if (Math.abs(c - 1) <= 1e-12) c = 1;
+    // 0.5·u² → u²/2, 0.166667·u → u/6: reciprocals of small integers read better as divisions.
     const inv = 1 / c;
-    if (c < 1 && Math.abs(inv - Math.round(inv)) <= 1e-9 * inv && Math.round(inv) <= 12) {
+    const r0 = Math.round(inv);
+    if (top !== null && c < 1 && r0 >= 2 && r0 <= 12 && Math.abs(inv - r0) <= 1e-9 * inv && (r0 === 2 || String(c).length > 5)) {
       const r = Math.round(inv);
       bottom = bottom ? op('multiply', [num(r), bottom]) : num(r);
       c = 1;
@@ -469,7 +514,7 @@ export class Polisher {
     }
     const factors: MathNode[] = [];
     let found = common.size > 0;
-    for (const sf of this.specialFactors(rest)) {
+    for (const sf of this.specialFactors(rest).slice(0, 2 * MAX_SPECIAL_ATOMS)) {
       for (let i = 0; i < 3 && rest.size > 1; i++) {
         const q = this.divide(rest, sf.poly);
         if (!q) break;
@@ -478,10 +523,16 @@ export class Polisher {
         found = true;
       }
     }
-    if (!found) return null;
     let c = 1;
+    // Common integer factor: 4·u − 6·v → 2·(2·u − 3·v).
+    const ints = [...rest.values()].map((m) => Math.abs(m.c));
+    if (rest.size > 1 && ints.every((v) => Number.isInteger(v) && v < 1e9)) {
+      const g = ints.reduce((a, b) => gcd(a, b));
+      if (g > 1) { c = g; rest = scalePoly(rest, 1 / g); found = true; }
+    }
+    if (!found) return null;
     const restMono = monoOnly(rest);
-    if (restMono && restMono.e.size === 0) { c = restMono.c; rest = constPoly(1); }
+    if (restMono && restMono.e.size === 0) { c *= restMono.c; rest = constPoly(1); }
     const lead = [...rest.values()].every((m) => m.c < 0) ? -1 : 1;
     if (lead < 0) { c = -c; rest = scalePoly(rest, -1); }
     const head = this.monoTree({ c, e: common }, true);
@@ -501,7 +552,7 @@ export class Polisher {
 
   /** Terms grouped by what multiplies a σ/tanh atom, each group factored: σ + k·x·σ·(1 − σ). */
   private grouped(p: Poly, depth: number): MathNode | null {
-    const specials = [...new Set([...p.values()].flatMap((m) => [...m.e.keys()]))].filter((id) => isFn(this.atomNode(id), 'sigmoid') || isFn(this.atomNode(id), 'tanh'));
+    const specials = this.specialAtoms(p);
     let best: MathNode | null = null;
     let bestLen = Infinity;
     for (const s of specials) {
@@ -526,14 +577,76 @@ export class Polisher {
     return best;
   }
 
+  /**
+   * P as a combination of the derivative-friendly basis of one σ or tanh atom (degree ≤ 3):
+   * tanh t: 1, t, 1 − t², t·(1 − t²); σ s: 1, s, s·(1 − s), s·(1 − s)·(1 − 2s). Coefficients are
+   * polynomials in the other atoms: 0.5 + 0.5·tanh(u) + x·(…)·(1 − tanh(u)²).
+   */
+  private basis(p: Poly, depth: number): MathNode | null {
+    const specials = this.specialAtoms(p);
+    let best: MathNode | null = null;
+    let bestLen = Infinity;
+    for (const id of specials) {
+      const cs: Poly[] = [new Map(), new Map(), new Map(), new Map()];
+      let ok = true;
+      for (const m of p.values()) {
+        const k = m.e.get(id) ?? 0;
+        if (k < 0 || k > 3) { ok = false; break; }
+        const e = new Map(m.e);
+        e.delete(id);
+        addMono(cs[k] as Poly, { c: m.c, e });
+      }
+      if (!ok) continue;
+      const [c0, c1, c2, c3] = cs as [Poly, Poly, Poly, Poly];
+      const a = this.atomNode(id);
+      const one = op('subtract', [num(1), isFn(a, 'tanh') ? op('pow', [a, num(2)]) : a]);
+      let terms: [Poly, MathNode | null][];
+      if (isFn(a, 'tanh')) {
+        terms = [[addPoly(c0, c2), null], [addPoly(c1, c3), a], [scalePoly(c2, -1), one], [scalePoly(c3, -1), op('multiply', [a, one])]];
+      } else {
+        const b2 = op('multiply', [a, one]);
+        const b3 = op('multiply', [b2, op('subtract', [num(1), op('multiply', [num(2), a])])]);
+        terms = [[c0, null], [addPoly(addPoly(c1, c2), c3), a], [scalePoly(addPoly(c2, scalePoly(c3, 1.5)), -1), b2], [scalePoly(c3, 0.5), b3]];
+      }
+      const parts: { tree: MathNode; negative: boolean }[] = [];
+      for (const [coef, basisTree] of terms) {
+        if (coef.size === 0) continue;
+        const negative = [...coef.values()].every((m) => m.c < 0);
+        const c = negative ? scalePoly(coef, -1) : coef;
+        const cm = monoOnly(c);
+        let tree: MathNode;
+        if (basisTree === null) tree = this.best(c, depth + 1);
+        else if (cm && cm.e.size === 0 && Math.abs(cm.c - 1) <= 1e-12) tree = basisTree;
+        else {
+          const ct = cm ? this.monoTree(cm, true).tree : this.best(c, depth + 1);
+          tree = isOp(ct, 'divide') ? op('divide', [op('multiply', [args(ct)[0] as MathNode, basisTree]), args(ct)[1] as MathNode]) : op('multiply', [ct, basisTree]);
+        }
+        parts.push({ tree, negative });
+      }
+      const tree = this.sumTree(parts);
+      const len = printedLength(tree);
+      if (len < bestLen) { best = tree; bestLen = len; }
+    }
+    return best;
+  }
+
+  /** σ and tanh atoms of P; none when there are more than MAX_SPECIAL_ATOMS (each costs a pass). */
+  private specialAtoms(p: Poly): number[] {
+    const ids = [...new Set([...p.values()].flatMap((m) => [...m.e.keys()]))].filter((id) => isFn(this.atomNode(id), 'sigmoid') || isFn(this.atomNode(id), 'tanh'));
+    return ids.length > MAX_SPECIAL_ATOMS ? [] : ids;
+  }
+
   private best(p: Poly, depth = 0): MathNode {
+    this.spend(4 * p.size);
     const flat = this.flat(p);
     if (depth > 2) return flat;
     let best = flat;
     let bestLen = printedLength(flat);
-    for (const c of [this.factored(p, depth), this.grouped(p, depth)]) {
+    const b = this.basis(p, depth);
+    // A basis rewrite earns no bonus for its σ(1 − σ) terms: they are summands, not factors.
+    for (const [c, len0] of [[this.factored(p, depth), 0], [this.grouped(p, depth), 0], [b, b ? SPECIAL_BONUS * specialCount(b) : 0]] as const) {
       if (!c) continue;
-      const len = printedLength(c);
+      const len = printedLength(c) + len0;
       if (len < bestLen) { best = c; bestLen = len; }
     }
     return best;
@@ -566,6 +679,10 @@ export class Polisher {
   }
 }
 
+function gcd(a: number, b: number): number {
+  return b === 0 ? a : gcd(b, a % b);
+}
+
 function bump(e: Map<number, number>, id: number, k: number): void {
   const v = (e.get(id) ?? 0) + k;
   if (v === 0) e.delete(id);
@@ -583,14 +700,41 @@ export function setPrintedLength(f: (n: MathNode) => number): void {
   measure = f;
 }
 
+/** Recognisable factors: 1 − σ(u), 1 − tanh²(u). */
+function specialCount(n: MathNode): number {
+  let count = 0;
+  const walk = (c: MathNode): void => {
+    if (isOp(c, 'subtract') && isNum(args(c)[0] as MathNode, 1)) {
+      const b = args(c)[1] as MathNode;
+      if (isFn(b, 'sigmoid') || (isOp(b, 'pow') && isNum(args(b)[1] as MathNode, 2) && isFn(args(b)[0] as MathNode, 'tanh'))) count++;
+    }
+    for (const k of children(c)) walk(k);
+  };
+  walk(n);
+  return count;
+}
+
+/** Characters a factor such as (1 − σ(x)) may cost before the expanded form is preferred. */
+const SPECIAL_BONUS = 8;
+
+/** How well a display tree reads: printed length, recognisable factors counting as shorter. */
+export function displayScore(n: MathNode): number {
+  return measure(n) - SPECIAL_BONUS * specialCount(n);
+}
+
 function printedLength(n: MathNode): number {
-  return measure(n);
+  return displayScore(n);
 }
 
 /** Polished display tree of a marked derivative tree (display only; see the module comment). */
-export function polishForDisplay(node: MathNode): MathNode {
+export function polishForDisplay(node: MathNode, opts: { budgetMs?: number } = {}): MathNode {
   if (countNodes(node, MAX_INPUT_NODES + 1) > MAX_INPUT_NODES) return node;
-  return new Polisher().polishNode(node);
+  try {
+    return new Polisher(now() + (opts.budgetMs ?? LIMITS.displayPolishBudgetMs)).polishNode(node);
+  } catch (e) {
+    if (e instanceof OutOfWork) return node;
+    throw e;
+  }
 }
 
 /** Expands the display-only names (φ, Φ) back into stock mathjs, for checking polished trees. */

@@ -32,7 +32,7 @@ export function checkWhitelist(root: MathNode, locate: Locator): void {
       case 'ConstantNode': {
         const v = (node as unknown as { value: unknown }).value;
         if (typeof v !== 'number') {
-          throw new SlopewiseError('not-allowed', typeof v === 'string' ? 'Strings are not allowed in a formula' : `The constant ${String(v)} is not allowed in a formula`, undefined);
+          throw new SlopewiseError('not-allowed', typeof v === 'string' ? 'Strings are not allowed in a formula' : v === undefined ? 'Nothing to read: the formula is empty' : `The constant ${String(v)} is not allowed in a formula`, undefined);
         }
         break;
       }

@@ -138,6 +138,15 @@ describe('check: argument form, parameters, upstream gradients, batch means', ()
     assert.ok(Math.abs(f!.evidence!.foundValue - 0.1) < 1e-12 && Math.abs(f!.evidence!.expectedValue - 0.01) < 1e-12);
   });
 
+  it('binds parameters from numeric arguments at call sites (positional or keyword)', () => {
+    const mk = (bwdArg: string) => py([
+      'import numpy as np', 'def leaky(x, a):', '    return np.where(x > 0, x, a * x)', 'def leaky_grad(x, a):', '    return np.where(x > 0, 1.0, a)',
+      'def model(z):', '    y = leaky(z, 0.01)', `    g = leaky_grad(z, ${bwdArg})`, '    return y * g',
+    ]);
+    assert.deepEqual(rules(mk('0.1')), ['derivative-mismatch']);
+    assert.deepEqual(rules(mk('a=0.01')), []);
+  });
+
   it('a parameter with the same default on both sides must be right for other values too', () => {
     const src = py(['import numpy as np', 'def sp(x, beta=1.0):', '    return np.log1p(np.exp(beta * x)) / beta', 'def sp_grad(x, beta=1.0):', '    return 1 / (1 + np.exp(-x))']);
     assert.deepEqual(rules(src), ['derivative-mismatch']);

@@ -1,7 +1,8 @@
 // The adversarial set the bench measures: every formula comes back (derivatives or a clean
 // SlopewiseError), with f′ matching a central difference of f where it is finite. No timings asserted.
 import * as assert from 'node:assert/strict';
-import { ADVERSARIAL_FORMULAS, derive, measureEngineWorstCase, parseFormula } from '../../../src/core/expr';
+import { derive, parseFormula } from '../../../src/core/expr';
+import { ADVERSARIAL_FORMULAS, measureEngineWorstCase } from '../../../src/core/expr/adversarial';
 import { stockFn } from './support';
 
 describe('adversarial inputs', function () {

@@ -28,3 +28,38 @@ describe('display form', () => {
     assert.match(latexForm(parseFormula('x / (1 + exp(-x))').node), /\\sigma/);
   });
 });
+
+describe('derivative displays read like the handbook forms', () => {
+  const d = (s: string, variable?: string) => derive(parseFormula(s, variable === undefined ? {} : { variable }));
+  it('σ″ = σ(1 − σ)(1 − 2σ) and tanh″ = −2·tanh·(1 − tanh²) (handbook identities, from memory)', () => {
+    assert.equal(d('sigmoid(x)').secondDisplay, 'σ(x)·(1 − σ(x))·(1 − 2·σ(x))');
+    assert.equal(d('tanh(x)').secondDisplay, '−2·tanh(x)·(1 − tanh(x)²)');
+    assert.equal(d('softplus(x)').secondDisplay, 'σ(x)·(1 − σ(x))');
+  });
+  it('GELU = x·Φ(x): f′ = Φ(x) + x·φ(x), f″ = (2 − x²)·φ(x) (Hendrycks & Gimpel 2016; product rule, φ′ = −x·φ)', () => {
+    const g = d('gelu(x)');
+    assert.equal(g.firstDisplay, 'Φ(x) + x·φ(x)');
+    assert.equal(g.secondDisplay, 'φ(x)·(2 − x²)');
+    assert.equal(d('normal_pdf(x)').firstDisplay, '−x·φ(x)');
+    assert.equal(d('normal_cdf(x)').firstDisplay, 'φ(x)');
+  });
+  it('folds constant sub-expressions: no √2², √2³ or √π left in the GELU forms', () => {
+    for (const s of [d('gelu(x)').secondDisplay, d('normal_cdf(x)').secondDisplay]) assert.doesNotMatch(s, /√/);
+  });
+  it('d/dz BCE(σ(z), y) = σ(z) − y (common practice: the logistic-loss gradient)', () => {
+    const b = d('bce(sigmoid(z), y)', 'z');
+    assert.equal(b.firstDisplay, 'σ(z) − y');
+    assert.equal(b.secondDisplay, 'σ(z)·(1 − σ(z))');
+  });
+  it('softsign′ = 1/(1 + |x|)², log-cosh′ = tanh, SiLU′ = σ·(1 + x·(1 − σ)) (from memory)', () => {
+    assert.equal(d('softsign(x)').firstDisplay, '1/(1 + |x|)²');
+    assert.equal(d('softsign(x)').secondDisplay, '−2·sign(x)/(1 + |x|)³');
+    assert.equal(d('log_cosh(p, y)', 'p').firstDisplay, 'tanh(p − y)');
+    assert.equal(d('silu(x)').firstDisplay, 'σ(x)·(1 + x·(1 − σ(x)))');
+  });
+  it('reduces integer fractions and keeps the canonical form stock mathjs', () => {
+    assert.match(d('hardswish(x)').secondDisplay, /1\/3/);
+    const g = d('gelu(x)');
+    assert.doesNotMatch(g.first + g.second, /normal_|sigmoid|softplus/);
+  });
+});
