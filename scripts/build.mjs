@@ -129,21 +129,64 @@ function integrationTestEntries() {
   return [...(fs.existsSync(runner) ? [runner] : []), ...files.sort()];
 }
 
+// ---------------------------------------------------------------------------------------------
+// EXTENSION-HOST BUNDLES (out/extension.js, out/web/extension.js): options shared by both.
+//
+// The host never renders LaTeX: `latexForm` (mathjs `toTex`) feeds only inspect's `latex` field,
+// which the CLI prints; the hover and diagnostics use the unicode display forms. mathjs's LaTeX
+// tables (utils/latex.js and escape-latex, ~8.7 kB minified) are therefore replaced in the host
+// bundles by a stand-in that throws a clear error if a toTex ever runs there, and the build fails
+// if host code starts using LaTeX output (then drop this plugin). The CLI bundle keeps the tables.
+const HOST_LATEX_STUB = `const absent = () => { throw new Error('LaTeX output (mathjs toTex) is not part of the extension host bundle; it is a CLI feature'); };
+const table = new Proxy({}, { get: absent, has: absent });
+export const latexSymbols = table;
+export const latexOperators = table;
+export const latexFunctions = table;
+export const defaultTemplate = '';
+export const escapeLatex = absent;
+export const toSymbol = absent;
+`;
+/** Our modules that may mention LaTeX output in the host graph: where it is defined or re-exported. */
+const LATEX_DEFINERS = new Set(['src/core/expr/display.ts', 'src/core/expr/index.ts']);
+const hostWithoutLatex = {
+  name: 'host-without-latex',
+  setup(build) {
+    build.onLoad({ filter: /[\\/]mathjs[\\/]lib[\\/](esm|cjs)[\\/]utils[\\/]latex\.js$/ }, () => ({ contents: HOST_LATEX_STUB, loader: 'js' }));
+    build.onEnd((result) => {
+      if (!result.metafile) return undefined;
+      const errors = [];
+      for (const input of Object.keys(result.metafile.inputs)) {
+        if (!input.startsWith('src/') || LATEX_DEFINERS.has(input)) continue;
+        const text = fs.readFileSync(abs(input), 'utf8');
+        if (/\blatexForm\b|\.toTex\s*\(/.test(text)) {
+          errors.push({ text: `${input} uses LaTeX output (latexForm/toTex), which the extension-host bundles leave out: remove the host-without-latex plugin in scripts/build.mjs` });
+        }
+      }
+      // esbuild does not print errors returned from onEnd: say it here.
+      for (const e of errors) console.error(`✘ [ERROR] ${e.text}`);
+      return { errors };
+    });
+  },
+};
+/** Host bundles are read as UTF-8 (Node's loader, the web worker's script fetch): keep non-ASCII text as is, not as \u escapes. */
+const HOST_OPTIONS = { charset: 'utf8' };
+// ---------------------------------------------------------------------------------------------
+
 /** All targets. `source` is the file that must exist; `options` are esbuild options. */
 function targets() {
   const testFiles = integrationTestEntries();
   return [
     {
       name: 'extension', source: 'src/extension/main.ts',
-      options: { ...common, entryPoints: [abs('src/extension/main.ts')], outfile: abs('out/extension.js'),
-        platform: 'node', format: 'cjs', target: 'node20', external: ['vscode'] },
+      options: { ...common, ...HOST_OPTIONS, entryPoints: [abs('src/extension/main.ts')], outfile: abs('out/extension.js'),
+        platform: 'node', format: 'cjs', target: 'node20', external: ['vscode'], plugins: [hostWithoutLatex] },
     },
     {
       name: 'web', source: 'src/extension/main.ts',
-      options: { ...common, entryPoints: [abs('src/extension/main.ts')], outfile: abs('out/web/extension.js'),
+      options: { ...common, ...HOST_OPTIONS, entryPoints: [abs('src/extension/main.ts')], outfile: abs('out/web/extension.js'),
         platform: 'browser', format: 'cjs', external: ['vscode'], mainFields: ['browser', 'module', 'main'],
         define: { 'process.env.NODE_ENV': production ? '"production"' : '"development"' },
-        plugins: [noNodeBuiltins] },
+        plugins: [noNodeBuiltins, hostWithoutLatex] },
     },
     {
       name: 'cli', source: 'src/cli/main.ts',

@@ -30,6 +30,8 @@ const TIERS = [
   { name: 'fuzz', script: 'fuzz', cmd: [npm, 'run', '--silent', 'fuzz', '--', '--count', '2000'] },
   { name: 'editor', cmd: [npm, 'run', '--silent', 'test:editor'], needs: 'build' },
   { name: 'web', cmd: [npm, 'run', '--silent', 'test:web'], needs: 'build' },
+  // A person's view: hover, plot and the chart's marks in the webview frame, screenshots to screenshots/.
+  { name: 'browser', cmd: [npm, 'run', '--silent', 'test:browser'], needs: 'build' },
   // Last, because it rebuilds out/ in production mode: the packaged .vsix installed into code-server
   // reports diagnostics on the demo (what `npm start` serves).
   { name: 'vsix', cmd: [process.execPath, 'scripts/start.mjs', '--smoke', '--port', '0'], needs: 'build' },

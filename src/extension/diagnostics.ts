@@ -2,13 +2,19 @@
  * The checker's findings as diagnostics: on open, on save and after a pause in typing (per the
  * `slopewise.checkWhen` setting), with the rule id as the diagnostic code, the forward as related
  * information and severities from settings. Also caches detected formulas per document version for
- * the hover provider and the commands.
+ * the hover provider and the commands. Each open document has its own incremental checker
+ * (core/check `createChecker`): a re-check after an edit reuses the comparisons of the functions the
+ * edit did not touch, and returns exactly what a full check would. Dropped when the document closes.
  */
 import * as vscode from 'vscode';
 import type { Finding, FoundFormula, RuleId } from '../core/types';
 import type { Config, RuleSeverity } from './config';
 import { coreLanguage } from './languages';
 import * as engine from './engine';
+// The checker object itself is not behind engine.ts (owned elsewhere; it offers only the one-shot
+// checkText): the options are built here exactly as engine.checkTextIn builds them.
+import { createChecker, type Checker, type CheckOptions } from '../core/check';
+import { LIMITS } from '../core/limits';
 
 /** Shared by the diagnostics and the code-action provider that fixes them. */
 export const DIAGNOSTIC_SOURCE = 'Slopewise';
@@ -30,6 +36,8 @@ export class DiagnosticsManager implements vscode.Disposable {
   readonly collection = vscode.languages.createDiagnosticCollection('slopewise');
   private readonly timers = new Map<string, ReturnType<typeof setTimeout>>();
   private readonly state = new Map<string, DocState>();
+  /** One incremental checker per open document (bounded caches; see core/check/cache.ts). */
+  private readonly checkers = new Map<string, Checker>();
   /** Findings of files checked by the workspace command that are not open (for code actions once opened). */
   private readonly stored = new Map<string, { text: string; findings: Finding[] }>();
 
@@ -38,6 +46,7 @@ export class DiagnosticsManager implements vscode.Disposable {
   dispose(): void {
     for (const t of this.timers.values()) clearTimeout(t);
     this.timers.clear();
+    this.checkers.clear();
     this.collection.dispose();
   }
 
@@ -69,6 +78,7 @@ export class DiagnosticsManager implements vscode.Disposable {
   forget(uri: vscode.Uri): void {
     const key = uri.toString();
     this.state.delete(key);
+    this.checkers.delete(key);
     const t = this.timers.get(key);
     if (t) clearTimeout(t);
     this.timers.delete(key);
@@ -117,8 +127,16 @@ export class DiagnosticsManager implements vscode.Disposable {
         this.collection.delete(doc.uri);
         return 0;
       }
-      const findings = engine.checkTextIn(text, { languageId: coreLanguage(doc.languageId) ?? 'plain', fileName: doc.fileName,
-        maxFormulasPerFile: config.maxFormulasPerFile });
+      const key = doc.uri.toString();
+      let checker = this.checkers.get(key);
+      if (!checker) {
+        checker = createChecker();
+        this.checkers.set(key, checker);
+      }
+      const o: Omit<CheckOptions, 'cache'> = { languageId: coreLanguage(doc.languageId) ?? 'plain', fileName: doc.fileName };
+      // Settings may lower the core's limit, never raise it.
+      o.limits = { maxFormulasPerFile: Math.min(config.maxFormulasPerFile, LIMITS.maxFormulasPerFile) as typeof LIMITS.maxFormulasPerFile };
+      const findings = checker.check(text, o);
       const s = this.docState(doc);
       s.findings = findings;
       const diags = this.toDiagnostics(findings, (off) => doc.positionAt(off), doc.uri, config);

@@ -48,7 +48,7 @@ export class Lru<V> {
 }
 
 /** Returns the cached value for `key`, computing and storing it on a miss. */
-export function memo<V>(table: Lru<V>, key: string | undefined, compute: () => V): V {
+export function memo<V>(table: { get(key: string): V | undefined; set(key: string, value: V): unknown }, key: string | undefined, compute: () => V): V {
   if (key === undefined) return compute();
   const hit = table.get(key);
   if (hit !== undefined) return hit;

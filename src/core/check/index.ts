@@ -56,7 +56,10 @@ export class CheckCache {
   readonly same = new Lru<{ c?: Comparison }>();
   readonly unstable = new Lru<{ u?: UnstableCore }>();
   readonly vanishing = new Lru<{ w?: VanishingCore }>();
+  /** Code emitted for fixes, by (expression text, variables, target language). */
+  readonly emitted = new Lru<{ code?: string }>();
   clear(): void {
+    this.emitted.clear();
     this.parse.clear();
     this.verdict.clear();
     this.same.clear();
@@ -155,10 +158,15 @@ function checkSourceWith(text: string, opts: CheckOptions): CheckResult {
     return true;
   };
   // parameters: file constants < defaults < numeric arguments at call sites
-  const allCalls = callsIn(model.lexed.tokens.filter((t) => t.kind !== 'nl'));
+  // calls by callee name, in file order (callSiteParams reads only the calls of one function)
+  const callsByName = new Map<string, Call[]>();
+  for (const call of callsIn(model.lexed.tokens.filter((t) => t.kind !== 'nl'))) {
+    const l = callsByName.get(call.name);
+    if (l) l.push(call); else callsByName.set(call.name, [call]);
+  }
   for (const c of model.codeFormulas) {
     if (stopReading()) break;
-    const params = { ...model.constants, ...c.params, ...callSiteParams(c, allCalls, model.constants) };
+    const params = { ...model.constants, ...c.params, ...callSiteParams(c, callsByName.get(c.fn.name) ?? [], model.constants) };
     for (const u of c.upstream) params[u] = 1;
     const f = tryParse(c.text, language, c.variable, params);
     if (!f) continue;
@@ -390,8 +398,7 @@ function customDerivativeRegistrations(model: SourceModel): Map<string, string> 
 function pairByCallSite(model: SourceModel, d: Read, forwards: Read[]): Read | undefined {
   const name = d.code!.fn.name;
   for (const fn of model.code.functions) {
-    const toks = fn.bodyTokens.filter((t) => t.kind !== 'nl');
-    const calls = callsIn(toks);
+    const { toks, calls } = bodyCalls(fn);
     const dcall = calls.find((c) => c.name === name);
     if (!dcall) continue;
     for (const c of calls) {
@@ -412,8 +419,7 @@ function pairByCallSite(model: SourceModel, d: Read, forwards: Read[]): Read | u
 function derivativesByUse(model: SourceModel, reads: Read[]): Map<Read, Read> {
   const out = new Map<Read, Read>();
   for (const fn of model.code.functions) {
-    const toks = fn.bodyTokens.filter((t) => t.kind !== 'nl');
-    const calls = callsIn(toks);
+    const { toks, calls } = bodyCalls(fn);
     const ups = new Set(fn.params.map((p) => p.name).filter((n) => UPSTREAM_NAMES.has(n)));
     if (ups.size === 0) continue;
     for (const c of calls) {
@@ -457,6 +463,20 @@ function callSiteParams(c: CodeFormula, calls: Call[], constants: Record<string,
 }
 
 interface Call { name: string; args: string[]; start: number; end: number; line: number }
+
+type CodeFunction = SourceModel['code']['functions'][number];
+const callsByFunction = new WeakMap<CodeFunction, { toks: Token[]; calls: Call[] }>();
+
+/** A function body's tokens (no line breaks) and the calls in it; memoised per detected function object. */
+function bodyCalls(fn: CodeFunction): { toks: Token[]; calls: Call[] } {
+  let c = callsByFunction.get(fn);
+  if (!c) {
+    const toks = fn.bodyTokens.filter((t) => t.kind !== 'nl');
+    c = { toks, calls: callsIn(toks) };
+    callsByFunction.set(fn, c);
+  }
+  return c;
+}
 
 function callsIn(toks: Token[]): Call[] {
   const out: Call[] = [];
@@ -560,7 +580,7 @@ function compareDerivativeOnce(fwd: Formula, d: Read, upstream: string[]): Verdi
   const x = fwd.variable;
   let dnode: MathNode;
   try {
-    dnode = differentiate(fwd.node, x);
+    dnode = derivativeOf(fwd.node, x);
   } catch {
     return undefined;
   }
@@ -575,9 +595,9 @@ function compareDerivativeOnce(fwd: Formula, d: Read, upstream: string[]): Verdi
     const dp = { ...d.formula.parameters, ...assign };
     let F: ScalarFn, Fp: ScalarFn, D: ScalarFn;
     try {
-      F = compileScalar(fwd.node, x, fp);
-      Fp = compileScalar(dnode, x, fp);
-      D = compileScalar(d.formula.node, d.formula.variable, dp);
+      F = compiled(fwd.node, x, fp);
+      Fp = compiled(dnode, x, fp);
+      D = compiled(d.formula.node, d.formula.variable, dp);
     } catch {
       return undefined;
     }
@@ -599,7 +619,7 @@ function compareDerivativeOnce(fwd: Formula, d: Read, upstream: string[]): Verdi
       const dp2 = { ...dp };
       for (const u of upstream) dp2[u] = 2;
       try {
-        const D2 = compileScalar(d.formula.node, d.formula.variable, dp2);
+        const D2 = compiled(d.formula.node, d.formula.variable, dp2);
         const lin = compareFunctions((t) => 2 * (v!.argument === 'output' ? D(F(t)) : D(t)), (t) => (v!.argument === 'output' ? D2(F(t)) : D2(t)));
         if (lin && !lin.ok) v = { ...v, cmp: { ...lin, ok: false } };
       } catch { /* compiled once already */ }
@@ -666,8 +686,8 @@ function compareSameUncached(code: Read, comment: Read): Comparison | undefined 
   let worst: Comparison | undefined;
   for (const assign of sampleAssignments(shared)) {
     try {
-      const A = compileScalar(code.formula.node, code.formula.variable, { ...code.formula.parameters, ...assign });
-      const B = compileScalar(comment.formula.node, comment.formula.variable, { ...comment.formula.parameters, ...assign });
+      const A = compiled(code.formula.node, code.formula.variable, { ...code.formula.parameters, ...assign });
+      const B = compiled(comment.formula.node, comment.formula.variable, { ...comment.formula.parameters, ...assign });
       const c = compareFunctions(A, B);
       if (c && (!worst || (!c.ok && worst.ok))) worst = c;
     } catch {
@@ -701,6 +721,33 @@ function fmt(v: number): string {
 }
 
 const cleaned = new WeakMap<MathNode, MathNode>();
+const compiledByTree = new WeakMap<MathNode, Map<string, ScalarFn>>();
+const derivedByTree = new WeakMap<MathNode, Map<string, MathNode>>();
+
+/**
+ * compileScalar, memoised by tree identity, variable and bindings. A compiled function is a pure
+ * numeric function of its argument (generated from the whitelisted tree with the bindings as
+ * constants), so sharing it is exact. Failures are not kept (they throw again).
+ */
+function compiled(node: MathNode, variable: string, params: Record<string, number>): ScalarFn {
+  let m = compiledByTree.get(node);
+  if (!m) { m = new Map(); compiledByTree.set(node, m); }
+  const key = keyOf(variable, paramsKey(params));
+  let f = m.get(key);
+  if (!f) { f = compileScalar(node, variable, params); m.set(key, f); }
+  return f;
+}
+
+/** differentiate, memoised by tree identity and variable (trees are immutable; the result is shared). */
+function derivativeOf(node: MathNode, variable: string): MathNode {
+  let m = derivedByTree.get(node);
+  if (!m) { m = new Map(); derivedByTree.set(node, m); }
+  let d = m.get(variable);
+  if (!d) { d = differentiate(node, variable); m.set(variable, d); }
+  return d;
+}
+/** Fix code per expected tree (few entries each: one per variable name and target language). */
+const fixesByTree = new WeakMap<MathNode, Map<string, { code?: string }>>();
 
 /**
  * The expected derivative as shown in a finding and emitted in a fix: the engine's light cleanup
@@ -753,7 +800,7 @@ function mismatchFinding(d: Read, fwd: Read, v: Verdict, text: string, language:
 /** Replacement text for a derivative whose body is one expression in the input form. */
 function derivativeFix(d: Read, v: Verdict, text: string, language: Language): Finding['fix'] | undefined {
   if (d.origin !== 'code' || v.argument !== 'input' || v.swapped) return undefined;
-  if (hasSymbol(v.expected.toString(), BATCH_SYMBOL)) return undefined; // the batch size has no name in the code
+  if (hasSymbol(display(v.expected), BATCH_SYMBOL)) return undefined; // the batch size has no name in the code
   const fn = d.code!.fn;
   const el = emitLanguageFor(language, text);
   if (!el) return undefined;
@@ -761,18 +808,27 @@ function derivativeFix(d: Read, v: Verdict, text: string, language: Language): F
   if (!ret || ret.length === 0) return undefined;
   const toks = ret.filter((t) => t.kind !== 'nl' && t.text !== ';');
   const span = { start: toks[0]!.start, end: toks[toks.length - 1]!.end };
-  const fwdVar = v.expected;
-  try {
-    // the expected derivative in the derivative's own variable name
-    let node = clean(fwdVar);
-    const dv = d.formula.variable;
-    if (dv !== v.variable) node = parseFormula(replaceSymbol(node.toString(), v.variable, dv), { variable: dv }).node;
-    let code = emitCode(node, el, { params: {} });
+  const dv = d.formula.variable;
+  // The emitted code depends only on the expected tree (by identity: it comes from the verdict cache),
+  // the two variable names and the target language: cached by those.
+  let perTree = fixesByTree.get(v.expected);
+  if (!perTree) { perTree = new Map(); fixesByTree.set(v.expected, perTree); }
+  const emitted = memo(perTree, keyOf(v.variable, dv, el), () => {
+    try {
+      // the expected derivative in the derivative's own variable name
+      let node = clean(v.expected);
+      if (dv !== v.variable) node = parseFormula(replaceSymbol(node.toString(), v.variable, dv), { variable: dv }).node;
+      return { code: emitCode(node, el, { params: {} }) };
+    } catch {
+      return {};
+    }
+  });
+  if (emitted.code === undefined) return undefined;
+  {
+    let code = emitted.code;
     const ups = d.code!.upstream;
     if (ups.length > 0 && hasSymbol(text.slice(span.start, span.end), ups[0]!)) code = `${ups[0]} * (${code})`;
     return { title: MESSAGES.fixTitle(), span, text: code };
-  } catch {
-    return undefined;
   }
 }
 
@@ -796,15 +852,15 @@ function callSiteFindings(model: SourceModel, d: Read, fwd: Read, forwards: Read
   const fname = fwd.code?.fn.name ?? fwd.name;
   for (const fn of model.code.functions) {
     if (fn === d.code!.fn) continue;
-    const toks = fn.bodyTokens.filter((t) => t.kind !== 'nl');
-    for (const call of callsIn(toks)) {
+    const { toks, calls } = bodyCalls(fn);
+    for (const call of calls) {
       if (call.name !== dname) continue;
       const arg = call.args[0] ?? '';
       if (arg === '') continue;
       const isOutput = arg.startsWith(`${fname}(`) || assignedFrom(toks, arg, fname) || forwards.some((f) => arg.startsWith(`${f.code?.fn.name}(`) && f === fwd);
       if (isOutput) continue;
       // the argument is something the forward is applied to elsewhere in this function, or a parameter
-      const appliedTo = callsIn(toks).some((c) => c.name === fname && c.args[0] === arg);
+      const appliedTo = calls.some((c) => c.name === fname && c.args[0] === arg);
       const isParam = fn.params.some((p) => p.name === arg);
       if (!appliedTo && !isParam) continue;
       const f: Finding = {
@@ -816,8 +872,8 @@ function callSiteFindings(model: SourceModel, d: Read, fwd: Read, forwards: Read
       // evidence: what the call computes (the derivative applied to the input) against f′(input)
       try {
         const x = fwd.formula.variable;
-        const Fp = compileScalar(differentiate(fwd.formula.node, x), x, fwd.formula.parameters);
-        const D = compileScalar(d.formula.node, d.formula.variable, { ...d.formula.parameters });
+        const Fp = compiled(derivativeOf(fwd.formula.node, x), x, fwd.formula.parameters);
+        const D = compiled(d.formula.node, d.formula.variable, { ...d.formula.parameters });
         const c = compareFunctions(Fp, D);
         if (c) f.evidence = { x: c.x, expectedValue: c.expectedValue, foundValue: c.foundValue, maxError: c.maxError, tolerance: c.tolerance, points: c.points };
       } catch { /* evidence is optional */ }
@@ -865,11 +921,18 @@ function unstable(r: Read, text: string, language: Language): Finding | undefine
   const fn = r.code?.fn;
   const ret = fn ? (fn.exprBody ?? (fn.body.length === 1 && fn.body[0]!.k === 'return' ? fn.body[0]!.expr : undefined)) : undefined;
   if (el && ret && ret.length > 0) {
-    try {
-      const node = parseFormula(core.expression, { variable: r.formula.variable }).node;
-      const toks = ret.filter((t) => t.kind !== 'nl' && t.text !== ';');
-      f.fix = { title: MESSAGES.stableFixTitle(core.title), span: { start: toks[0]!.start, end: toks[toks.length - 1]!.end }, text: emitCode(node, el, { params: {} }) };
-    } catch { /* no fix */ }
+    // the emitted rewrite depends only on its text, the variable and the target language
+    const emitted = memo(active.emitted, keyOf('stable', core.expression, r.formula.variable, el), () => {
+      try {
+        return { code: emitCode(parseFormula(core.expression, { variable: r.formula.variable }).node, el, { params: {} }) };
+      } catch {
+        return {};
+      }
+    });
+    const toks = ret.filter((t) => t.kind !== 'nl' && t.text !== ';');
+    if (emitted.code !== undefined && toks.length > 0) {
+      f.fix = { title: MESSAGES.stableFixTitle(core.title), span: { start: toks[0]!.start, end: toks[toks.length - 1]!.end }, text: emitted.code };
+    }
   }
   return f;
 }
@@ -887,7 +950,7 @@ function unstableCore(formula: Formula): UnstableCore | undefined {
   // error) over an interval at least SEVERE_WIDTH long in float32. Tiny subnormal tails are not reported.
   // A lost value matters only where the value itself matters: at least SIGNIFICANT × the function's
   // peak magnitude on [−6, 6] (a gradient of 1e-7 computed to 2 digits does not change training).
-  const exact = compileScalar(formula.node, formula.variable, formula.parameters);
+  const exact = compiled(formula.node, formula.variable, formula.parameters);
   let peak = 0;
   for (let x = -6; x <= 6; x += 0.05) { const v = Math.abs(exact(x)); if (Number.isFinite(v)) peak = Math.max(peak, v); }
   const severe = (b: { from: number | null; to: number | null; kind: string }, t: string): boolean => {

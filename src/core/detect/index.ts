@@ -125,14 +125,36 @@ export function analyzeSource(text: string, opts: DetectOptions = {}): SourceMod
   const codeFormulas: CodeFormula[] = [];
   // Two passes: first without inlining (to know each function's own expression), then inlining
   // calls to same-file functions (depth ≤ 2 through the first pass's texts).
+  // A function that names no other function of the file (no id token between its start and end
+  // equal to another function's name) cannot inline anything: the second pass's inliner would return
+  // nothing for every call (stmt.ts only inlines when ctx.inline gives a text), so its first-pass
+  // result is its second-pass result and is reused instead of read again.
+  const firstPass = new Map<FunctionDef, CodeFormula | undefined>();
+  const mayInline = (fn: FunctionDef): boolean => {
+    const toks = lexed.tokens;
+    let lo = 0;
+    let hi = toks.length;
+    while (lo < hi) { const mid = (lo + hi) >> 1; if (toks[mid]!.start < fn.start) lo = mid + 1; else hi = mid; }
+    for (let i = lo; i < toks.length && toks[i]!.start < fn.end; i++) {
+      const t = toks[i]!;
+      if (t.kind === 'id' && t.text !== fn.name && plain.has(t.text)) return true;
+    }
+    return false;
+  };
   for (const pass of [0, 1]) {
     for (const fn of code.functions) {
       if (Date.now() - started > limits.fileBudgetMs) {
         skipped.push(`time budget of ${limits.fileBudgetMs} ms per file ran out: later functions not read`);
         break;
       }
+      if (pass === 1 && firstPass.has(fn) && !mayInline(fn)) {
+        const again = firstPass.get(fn);
+        if (again) codeFormulas.push(again);
+        continue;
+      }
       const cf = functionFormula(fn, info, pass === 1 ? plain : undefined, constants);
       if (pass === 0) {
+        firstPass.set(fn, cf);
         if (cf) plain.set(fn.name, { text: cf.text, params: fn.params.filter((p) => !SKIP_PARAMS.has(p.name)).map((p) => p.name) });
         continue;
       }

@@ -316,7 +316,8 @@ export class Polisher {
 
   /** Polished tree of any node (falls back to the node with polished children on overflow). */
   polishNode(n: MathNode): MathNode {
-    if (n.type === 'ConstantNode' || n.type === 'SymbolNode') return n;
+    if (n.type === 'ConstantNode') return (isNum(n) ? asFraction(numValue(n)) : null) ?? n;
+    if (n.type === 'SymbolNode') return n;
     // Memoised by structure, and a polished tree counts as polished: without this, nested calls
     // (e^(e^(…))) would re-polish every inner argument at every level, doubling per level.
     const k = key(n);
@@ -330,7 +331,8 @@ export class Polisher {
 
   private polishUncached(n: MathNode): MathNode {
     if (n.type === 'OperatorNode' && !['add', 'subtract', 'multiply', 'divide', 'pow', 'unaryMinus', 'unaryPlus'].includes(opFn(n))) {
-      return rebuild(n, args(n).map((x) => this.polishNode(x)));
+      const polished = rebuild(n, args(n).map((x) => this.polishNode(x)));
+      return COMPARISONS.has(opFn(n)) ? simplerComparison(polished) : polished;
     }
     try {
       return this.fromPoly(this.cancel(this.toPoly(n)));
@@ -438,6 +440,8 @@ export class Polisher {
       bottom = bottom ? op('multiply', [num(r), bottom]) : num(r);
       c = 1;
     }
+    const frac = top === null ? asFraction(c) : null;
+    if (frac) return { tree: bottom ? op('divide', [frac, bottom]) : frac, negative };
     if (c !== 1) top = top ? op('multiply', [num(c), top]) : num(c);
     const head = top ?? num(1);
     return { tree: bottom ? op('divide', [head, bottom]) : head, negative };
@@ -568,7 +572,7 @@ export class Polisher {
       if (groups.size < 2 || groups.size === p.size) continue;
       const parts = [...groups.values()].map((g) => {
         const t = this.factored(g, depth + 1) ?? this.flat(g);
-        return isOp(t, 'unaryMinus') ? { tree: args(t)[0] as MathNode, negative: true } : { tree: t, negative: false };
+        return splitSign(t);
       });
       const tree = this.sumTree(parts);
       const len = printedLength(tree);
@@ -677,6 +681,72 @@ export class Polisher {
     }
     return this.best(p);
   }
+}
+
+/** A constant in (0, 1) with a long decimal that is p/q for q ≤ 12 (1/6, 2/3), as that fraction. */
+function asFraction(c: number): MathNode | null {
+  if (!(c > 0 && c < 1) || String(c).length <= 6) return null;
+  for (let q = 2; q <= 12; q++) {
+    const pq = c * q;
+    if (Math.abs(pq - Math.round(pq)) <= 1e-12 * q) return op('divide', [num(Math.round(pq)), num(q)]);
+  }
+  return null;
+}
+
+const COMPARISONS = new Set(['smaller', 'smallerEq', 'larger', 'largerEq']);
+
+/**
+ * Equivalent, shorter comparisons (exact over the reals, display only):
+ * max(u, c) < d → u < d when c < d; min(u, c) > d → u > d when c > d; u + c < d → u < d − c.
+ */
+function simplerComparison(n: MathNode): MathNode {
+  const f = opFn(n);
+  let [a, b] = args(n) as [MathNode, MathNode];
+  if (!isNum(b)) return n;
+  const d = numValue(b);
+  const below = f === 'smaller' || f === 'smallerEq';
+  for (let i = 0; i < 4; i++) {
+    if (isFn(a) && args(a).length === 2 && isNum(args(a)[1] as MathNode)) {
+      const c = numValue(args(a)[1] as MathNode);
+      // max(u, c) < d with c < d: true whenever u ≤ c, so it is u < d; likewise min(u, c) > d with c > d.
+      if ((fnName(a) === 'max' && below && c < d) || (fnName(a) === 'min' && !below && c > d)) { a = args(a)[0] as MathNode; continue; }
+    }
+    if (isOp(a, 'add') && isNum(args(a)[0] as MathNode) && !isNum(args(a)[1] as MathNode)) a = op('add', [args(a)[1] as MathNode, args(a)[0] as MathNode]);
+    if (isOp(a, 'multiply') && args(a).length === 2 && isNum(args(a)[0] as MathNode) && numValue(args(a)[0] as MathNode) !== 0) {
+      // k·u < d → u < d/k (the comparison turns round for k < 0), when d/k is exact.
+      const k = numValue(args(a)[0] as MathNode);
+      const q = d / k;
+      if (q * k === d && String(q).length <= 8) {
+        const flip: Readonly<Record<string, string>> = { smaller: 'larger', smallerEq: 'largerEq', larger: 'smaller', largerEq: 'smallerEq' };
+        return op(k > 0 ? f : (flip[f] as string), [args(a)[1] as MathNode, num(q)]);
+      }
+    }
+    if ((isOp(a, 'add') || isOp(a, 'subtract')) && isNum(args(a)[1] as MathNode)) {
+      const c = numValue(args(a)[1] as MathNode) * (isOp(a, 'add') ? 1 : -1);
+      const moved = d - c;
+      // Only when the moved constant is exact (no new rounding in what is shown).
+      if (Number.isFinite(moved) && moved + c === d) { b = num(moved); a = args(a)[0] as MathNode; return simplerComparison(op(f, [a, b])); }
+    }
+    break;
+  }
+  return a === args(n)[0] ? n : op(f, [a, b]);
+}
+
+/** A tree as ± magnitude: −u, (−2)·u and (−2·u)/v all count as negative. */
+function splitSign(t: MathNode): { tree: MathNode; negative: boolean } {
+  if (isOp(t, 'unaryMinus')) return { tree: args(t)[0] as MathNode, negative: true };
+  if (isNum(t) && numValue(t) < 0) return { tree: num(-numValue(t)), negative: true };
+  if (isOp(t, 'multiply') || isOp(t, 'divide')) {
+    const [a, ...rest] = args(t) as [MathNode, ...MathNode[]];
+    const inner = splitSign(a);
+    if (inner.negative) {
+      const head = isNum(inner.tree, 1) && isOp(t, 'multiply') ? null : inner.tree;
+      const kids = head ? [head, ...rest] : rest;
+      const tree = kids.length === 1 ? (kids[0] as MathNode) : op(opFn(t), kids);
+      return { tree, negative: true };
+    }
+  }
+  return { tree: t, negative: false };
 }
 
 function gcd(a: number, b: number): number {

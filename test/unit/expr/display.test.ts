@@ -57,6 +57,11 @@ describe('derivative displays read like the handbook forms', () => {
     assert.equal(d('log_cosh(p, y)', 'p').firstDisplay, 'tanh(p − y)');
     assert.equal(d('silu(x)').firstDisplay, 'σ(x)·(1 + x·(1 − σ(x)))');
   });
+  it('conditions read as plain thresholds: max(x, 0) < 6 is x < 6, x + 3 > 0 is x > −3 (exact over the reals)', () => {
+    assert.equal(d('relu6(x)').firstDisplay, 'x < 6 ? (x > 0 ? 1 : 0) : 0');
+    assert.equal(d('hardsigmoid(x)').firstDisplay, 'x < 3 ? (x > −3 ? 1/6 : 0) : 0');
+    assert.equal(d('hardtanh(x)').firstDisplay, 'x < 1 ? (x > −1 ? 1 : 0) : 0');
+  });
   it('reduces integer fractions and keeps the canonical form stock mathjs', () => {
     assert.match(d('hardswish(x)').secondDisplay, /1\/3/);
     const g = d('gelu(x)');
