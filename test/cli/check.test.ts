@@ -56,6 +56,19 @@ describe('cli: check', () => {
     assert.deepEqual(out.problems, [{ file: 'src/latin1.py', message: 'not valid UTF-8: skipped' }]);
   });
 
+  it('a file named on the command line that is not UTF-8 or is binary: exit 2, a JSON error, nothing else', () => {
+    const dir = scratchTree();
+    fs.writeFileSync(path.join(dir, 'blob.bin'), Buffer.from([0x7f, 0x45, 0x4c, 0x46, 0, 0, 1, 2]));
+    for (const [file, why] of [['src/latin1.py', /not valid UTF-8/], ['blob.bin', /binary file/]] as const) {
+      const r = runCli(['check', file, '--format', 'json'], dir);
+      assert.equal(r.status, 2, r.stdout);
+      const out = JSON.parse(r.stdout) as { error: { message: string }; findings?: unknown };
+      assert.match(out.error.message, why);
+      assert.ok(out.error.message.includes(file));
+      assert.equal(out.findings, undefined);
+    }
+  });
+
   it('text output for people', () => {
     const r = runCli(['check', 'test/fixtures/julia/act_bugs.jl']);
     assert.equal(r.status, 1);

@@ -12,7 +12,7 @@ import { collectSources } from './scan';
 
 export const command: CommandSpec = {
   name: 'check',
-  summary: 'check hand-written derivatives and comment formulas in source files',
+  summary: 'Check hand-written derivatives and comment formulas in source files.',
   usage: 'check <files or folders…> [--format text|json|sarif]',
   options: [
     { name: 'format', kind: 'string', value: '<text|json|sarif>', help: 'output format (default text)', choices: ['text', 'json', 'sarif'] },

@@ -63,14 +63,21 @@ export function collectSources(paths: readonly string[], ctx: CommandContext): S
       }
     } else if (st.isFile()) files.push(p);
   };
+  // A file named on the command line that cannot be read is the caller's mistake (exit 2, nothing
+  // written); files met while walking a folder are reported and skipped, never fatal.
+  const named = new Set<string>();
   for (const p of paths) {
     try {
-      statSync(p);
+      if (statSync(p).isFile()) named.add(p);
     } catch {
       ctx.usageError(`No such file or folder: ${p}`);
     }
     walk(p, 0);
   }
+  const skip = (p: string, message: string): void => {
+    if (named.has(p)) ctx.usageError(`${shown(p)}: ${message}`);
+    problems.push({ file: shown(p), message });
+  };
   const out: SourceFile[] = [];
   let binary = 0;
   const progress = process.stderr.isTTY && files.length >= PROGRESS_FROM;
@@ -80,19 +87,23 @@ export function collectSources(paths: readonly string[], ctx: CommandContext): S
     try {
       buf = readFileSync(p);
     } catch (e) {
-      problems.push({ file: shown(p), message: ioMessage(e) });
+      skip(p, ioMessage(e));
       return;
     }
-    if (buf.subarray(0, BINARY_PROBE).includes(0)) { binary++; return; }
+    if (buf.subarray(0, BINARY_PROBE).includes(0)) {
+      if (named.has(p)) ctx.usageError(`${shown(p)}: binary file, not source text`);
+      binary++;
+      return;
+    }
     if (buf.length > LIMITS.maxFileBytes) {
-      problems.push({ file: shown(p), message: `larger than ${LIMITS.maxFileBytes} bytes: skipped` });
+      skip(p, `larger than ${LIMITS.maxFileBytes} bytes: skipped`);
       return;
     }
     let text: string;
     try {
       text = new TextDecoder('utf-8', { fatal: true }).decode(buf);
     } catch {
-      problems.push({ file: shown(p), message: 'not valid UTF-8: skipped' });
+      skip(p, 'not valid UTF-8: skipped');
       return;
     }
     if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
@@ -112,7 +123,7 @@ function ioMessage(e: unknown): string {
 
 export const command: CommandSpec = {
   name: 'scan',
-  summary: 'list the activation, loss and derivative formulas found in source files',
+  summary: 'List the activation, loss and derivative formulas found in source files.',
   usage: 'scan <files or folders…> [--format text|json]',
   options: [
     { name: 'format', kind: 'string', value: '<text|json>', help: 'output format (default text)', choices: ['text', 'json'] },

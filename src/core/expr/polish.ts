@@ -554,6 +554,49 @@ export class Polisher {
     return head.negative ? neg(tree) : tree;
   }
 
+  /**
+   * Over a common denominator, the sums in it expanded where they multiply the numerator:
+   * 1.5/(1 + |x|) − 1.5·|x|/(1 + |x|)² = (1.5·(1 + |x|) − 1.5·|x|)/(1 + |x|)² = 1.5/(1 + |x|)².
+   * Exact algebra (multiply and divide by the same non-zero denominator); `best` keeps it only when it
+   * prints shorter.
+   */
+  private together(p: Poly, depth: number): MathNode | null {
+    if (p.size < 2) return null;
+    const den = new Map<number, number>();
+    for (const m of p.values()) {
+      for (const [id, k] of m.e) if (k < 0 && (this.atoms[id] as Atom).poly) den.set(id, Math.max(den.get(id) ?? 0, -k));
+    }
+    if (den.size === 0) return null;
+    try {
+      let num: Poly = new Map();
+      for (const m of p.values()) {
+        const e = new Map(m.e);
+        for (const [id, k] of den) bump(e, id, k);
+        const expand: [number, number][] = [];
+        for (const [id, k] of e) if (den.has(id) && k > 0) expand.push([id, k]);
+        for (const [id] of expand) e.delete(id);
+        let term: Poly = new Map();
+        addMono(term, this.normalizeMono({ c: m.c, e }));
+        for (const [id, k] of expand) term = this.mulPoly(term, this.powPoly((this.atoms[id] as Atom).poly as Poly, k));
+        num = addPoly(num, term);
+      }
+      if (num.size >= p.size) return null;
+      const numMono = monoOnly(num);
+      if (numMono) {
+        // A single term over the denominator: one monomial with the denominator's negative powers.
+        const e = new Map(numMono.e);
+        for (const [id, k] of den) bump(e, id, -k);
+        const t = this.monoTree({ c: numMono.c, e }, true);
+        return t.negative ? neg(t.tree) : t.tree;
+      }
+      const denTree = this.monoTree({ c: 1, e: den }, false).tree;
+      return op('divide', [this.best(num, depth + 1), denTree]);
+    } catch (e) {
+      if (e instanceof Abort) return null;
+      throw e;
+    }
+  }
+
   /** Terms grouped by what multiplies a σ/tanh atom, each group factored: σ + k·x·σ·(1 − σ). */
   private grouped(p: Poly, depth: number): MathNode | null {
     const specials = this.specialAtoms(p);
@@ -648,7 +691,7 @@ export class Polisher {
     let bestLen = printedLength(flat);
     const b = this.basis(p, depth);
     // A basis rewrite earns no bonus for its σ(1 − σ) terms: they are summands, not factors.
-    for (const [c, len0] of [[this.factored(p, depth), 0], [this.grouped(p, depth), 0], [b, b ? SPECIAL_BONUS * specialCount(b) : 0]] as const) {
+    for (const [c, len0] of [[this.factored(p, depth), 0], [this.grouped(p, depth), 0], [this.together(p, depth), 0], [b, b ? SPECIAL_BONUS * specialCount(b) : 0]] as const) {
       if (!c) continue;
       const len = printedLength(c) + len0;
       if (len < bestLen) { best = c; bestLen = len; }

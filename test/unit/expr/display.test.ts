@@ -51,6 +51,12 @@ describe('derivative displays read like the handbook forms', () => {
     assert.equal(b.firstDisplay, 'σ(z) − y');
     assert.equal(b.secondDisplay, 'σ(z)·(1 − σ(z))');
   });
+  it('over a common denominator: (a·x/(1 + |x|))′ = a/(1 + |x|)², (x/(1 + x²))′ = (1 − x²)/(1 + x²)² (quotient rule)', () => {
+    // quotient rule: (u/v)′ = (u′v − uv′)/v², with u = 1.5·x, v = 1 + |x|, v′ = sign(x) and x·sign(x) = |x|
+    assert.equal(d('1.5*x/(1+abs(x))').firstDisplay, '1.5/(1 + |x|)²');
+    assert.equal(d('1.5*x/(1+abs(x))').secondDisplay, '−3·sign(x)/(1 + |x|)³');
+    assert.equal(d('x/(1+x^2)').firstDisplay, '(1 − x²)/(x² + 1)²');
+  });
   it('softsign′ = 1/(1 + |x|)², log-cosh′ = tanh, SiLU′ = σ·(1 + x·(1 − σ)) (from memory)', () => {
     assert.equal(d('softsign(x)').firstDisplay, '1/(1 + |x|)²');
     assert.equal(d('softsign(x)').secondDisplay, '−2·sign(x)/(1 + |x|)³');
