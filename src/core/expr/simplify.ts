@@ -14,7 +14,9 @@
 import type { MathNode } from 'mathjs';
 import { LIMITS } from '../limits';
 import { math } from '../math';
-import { args, children, condParts, countNodes, fn, fnName, isCond, key, rebuild, substitute, sym, tidy, cond } from './nodes';
+import { args, children, condParts, countNodes, fn, fnName, freeSymbols, isCond, key, rebuild, substitute, sym, tidy, cond } from './nodes';
+import { compileMulti } from './compile';
+import { unmark } from './markers';
 
 export interface SimplifyResult {
   node: MathNode;
@@ -109,11 +111,47 @@ export function simplifyWithinBudget(node: MathNode, opts: { budgetMs?: number; 
   }
   const deadline = now() + budget;
   try {
-    return { node: simplifyLayer(node, deadline, new Map()), simplified: true };
+    const out = simplifyLayer(node, deadline, new Map());
+    if (!sameValues(node, out)) {
+      return { node: lightClean(node), simplified: false, note: 'Not simplified: the simplified form changed values on the real line, so the form as derived is kept' };
+    }
+    return { node: out, simplified: true };
   } catch (e) {
     if (!(e instanceof OutOfTime)) throw e;
     return { node: lightClean(node), simplified: false, note: `Not fully simplified: simplification ran out of its ${budget} ms budget` };
   }
+}
+
+/**
+ * mathjs's rules are not all valid on the real line: `(x^2)^0.5 → x` and `(x·x)^−0.5 → (x^−0.5)^2`
+ * (both wrong for x < 0) are among its defaults, so d/dx √(x·x) came out 1 instead of sign(x). Every
+ * simplified tree is therefore compared with the tree it came from at fixed points of both signs (all
+ * free symbols varied together); where the original is a finite number the simplified one must agree
+ * to SAME_VALUE_TOLERANCE. A tree that cannot be compiled even with its markers expanded is not judged.
+ */
+const SAME_VALUE_TOLERANCE = 1e-7;
+const PROBES = [-7.31, -2.47, -1.3, -0.77, -0.29, -0.043, 0.061, 0.33, 0.86, 1.41, 2.9, 6.2];
+
+function sameValues(before: MathNode, after: MathNode): boolean {
+  const vars = [...new Set([...freeSymbols(before), ...freeSymbols(after)])].filter((v) => v !== 'pi' && v !== 'e');
+  let f: (...v: number[]) => number;
+  let g: (...v: number[]) => number;
+  try {
+    // derive() simplifies trees with σ/softplus markers in them: expand those to stock functions first
+    f = compileMulti(unmark(before), vars);
+    g = compileMulti(unmark(after), vars);
+  } catch {
+    return true;
+  }
+  for (let i = 0; i < PROBES.length; i++) {
+    // each symbol gets a different probe, so x, y and parameters are not always equal
+    const values = vars.map((_, j) => PROBES[(i + 5 * j) % PROBES.length] as number);
+    const a = f(...values);
+    if (!Number.isFinite(a)) continue;
+    const b = g(...values);
+    if (!(Math.abs(a - b) <= SAME_VALUE_TOLERANCE * Math.max(1, Math.abs(a)))) return false;
+  }
+  return true;
 }
 
 /** Measures the slowest simplification over adversarial inputs (for the bench). Times in ms. */

@@ -2,7 +2,7 @@
 // BCE∘σ) come back with a value-preserving result and, when skipped, a note — never unbounded.
 // No wall-clock assertions: budgets are checked through the `simplified` flag and notes.
 import * as assert from 'node:assert/strict';
-import { derive, differentiateMarked, measureSimplifyWorstCase, parseFormula, simplifyWithinBudget, unmark } from '../../../src/core/expr';
+import { derive, differentiate, differentiateMarked, measureSimplifyWorstCase, parseFormula, simplifyWithinBudget, unmark } from '../../../src/core/expr';
 import { math } from '../../../src/core/math';
 import { assertClose, stockFn } from './support';
 
@@ -13,6 +13,24 @@ function tower(n: number): string {
 }
 
 describe('simplify within budget', () => {
+  it('never keeps a rewrite that is wrong on the real line: d/dx √(x·x) = sign(x), not 1 (found by the fuzzer)', () => {
+    // handbook identity: √(x²) = |x| and d|x|/dx = sign(x) for x ≠ 0. mathjs's default rules rewrite
+    // (x^2)^0.5 → x, which is only true for x ≥ 0.
+    const f = math.parse('(x*x)^0.5');
+    const d = derive(parseFormula('(x*x)^0.5'));
+    const df = stockFn(d.first, 'x');
+    for (const x of [-3.7, -0.4, 0.25, 2.2]) assertClose(df(x), Math.sign(x), 1e-12, `f′(${x})`);
+    const r = simplifyWithinBudget(differentiate(f, 'x'));
+    assert.equal(r.simplified, false);
+    assert.match(r.note ?? '', /changed values/);
+    // softsign(√(x·x)) + x·σ(x): the fuzzer's input, f′ at −7.31 against central differences
+    const g = derive(parseFormula('x*sigmoid(x) + softsign((x*x)^0.5)'));
+    const gv = stockFn(g.first, 'x');
+    const F = (x: number) => x / (1 + Math.exp(-x)) + Math.abs(x) / (1 + Math.abs(x));
+    const h = 1e-5;
+    assertClose(gv(-7.31), (F(-7.31 + h) - F(-7.31 - h)) / (2 * h), 1e-6, 'f′(−7.31)');
+  });
+
   it('keeps decimals (no giant fractions)', () => {
     const r = simplifyWithinBudget(math.parse('0.044715 * x^3 * 3'));
     assert.equal(r.simplified, true);
