@@ -33,8 +33,9 @@ function parseDomain(text: string, ctx: CommandContext): [number, number] {
 function fmt(v: number | null | undefined): string {
   if (v === null) return '∞';
   if (v === undefined || Number.isNaN(v)) return '?';
-  if (Number.isInteger(v)) return String(v);
-  return Number(v.toPrecision(5)).toString();
+  // U+2212 for negatives, as in the ∞ ends and the display forms
+  const t = Number.isInteger(v) ? String(v) : Number(v.toPrecision(5)).toString();
+  return t.startsWith('-') ? `−${t.slice(1)}` : t;
 }
 
 function interval(from: number | null, to: number | null): string {
@@ -64,7 +65,7 @@ export function formatText(r: InspectResult): string {
   if (r.discontinuities && r.discontinuities.length > 0) lines.push(`discontinuities: ${r.discontinuities.map(fmt).join(', ')}`);
   if (r.range) {
     const range = r.range as unknown as { inf: number | null; sup: number | null };
-    lines.push(`range: [${range.inf === null ? '−∞' : fmt(range.inf)}, ${range.sup === null ? '∞' : fmt(range.sup)}]    monotone: ${String(r.monotone)}`);
+    lines.push(`range: [${range.inf === null ? '−∞' : fmt(range.inf)}, ${range.sup === null ? '∞' : fmt(range.sup)}]    monotone: ${r.monotone === 'none' ? 'no' : String(r.monotone)}`);
   }
   if (r.lipschitz !== undefined) lines.push(`Lipschitz bound sup|f′|: ${r.lipschitz === null ? 'unbounded' : fmt(r.lipschitz)}${r.lipschitzAt !== undefined && r.lipschitzAt !== null ? ` (at ${r.lipschitzAt})` : ''}`);
   if (r.gain !== undefined) lines.push(`gain 1/√E[f(z)²]: ${r.gain === null ? 'n/a' : fmt(r.gain)}    E[f′(z)²]: ${fmt(r.derivativeMeanSquare)}`);
