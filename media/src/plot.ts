@@ -291,7 +291,7 @@ $('export-svg').addEventListener('click', () => {
 });
 $('export-png').addEventListener('click', () => {
   if (!view) return;
-  // PNG at 2× for crisp slides; drawn on a canvas the view creates (no eval, no network).
+  // PNG at 2× so it stays crisp when pasted into documents; drawn on a canvas the view creates (no eval, no network).
   void view.toImageURL('png', 2).then((url) => post({ type: 'export', format: 'png', data: url }));
 });
 
