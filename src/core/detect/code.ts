@@ -505,18 +505,7 @@ function readBraces(tokens: Token[], info: LanguageInfo): CodeModel {
       params = splitArgs(sig.slice(paramsOpen + 1, pclose)).map((a) => ({ name: a[0]?.text ?? '' })).filter((p) => p.name !== '');
     }
     const startTok = sig[headerStart]!;
-    let body: Stmt[];
-    let bodyTokens: Token[];
-    let end: Token;
-    if (bodyOpen !== undefined) {
-      bodyTokens = bodyRange(bodyOpen);
-      body = braceStatements(bodyTokens, family, lang);
-      end = sig[partner[bodyOpen]!]!;
-    } else {
-      bodyTokens = exprToks ?? [];
-      body = [{ k: 'return', expr: bodyTokens.filter((t) => t.kind !== 'nl'), line: startTok.line }];
-      end = endTok ?? bodyTokens[bodyTokens.length - 1] ?? startTok;
-    }
+    const { body, bodyTokens, end } = readBody(startTok, bodyOpen, exprToks, endTok);
     let className = classAt(headerStart);
     // Go methods: func (l *Leaky) Backward(…) — the receiver's type is the class
     if (lang === 'go' && sig[headerStart]?.text === 'func' && sig[headerStart + 1]?.text === '(') {
@@ -682,20 +671,20 @@ function readBraces(tokens: Token[], info: LanguageInfo): CodeModel {
     while (fi < functions.length && functions[fi]!.start <= c.at) { maxEnd = Math.max(maxEnd, functions[fi]!.end); fi++; }
     if (maxEnd < c.at) constants.push({ name: c.name, value: c.value, line: c.line });
   }
+  /** A function's body: the statements of its braced block, or its single expression as one return. */
+  function readBody(startTok: Token, bodyOpen: number | undefined, expr?: Token[], endTok?: Token): { body: Stmt[]; bodyTokens: Token[]; end: Token } {
+    if (bodyOpen !== undefined) {
+      const bodyTokens = bodyRange(bodyOpen);
+      return { body: braceStatements(bodyTokens, family, lang), bodyTokens, end: sig[partner[bodyOpen]!]! };
+    }
+    const bodyTokens = expr ?? [];
+    // an expression body may run over several lines inside brackets: the newlines are not part of it
+    const body: Stmt[] = [{ k: 'return', expr: bodyTokens.filter((t) => t.kind !== 'nl'), line: startTok.line }];
+    return { body, bodyTokens, end: endTok ?? bodyTokens[bodyTokens.length - 1] ?? startTok };
+  }
   function pushSingleParamFn(name: string, headerStart: number, param: Token, bodyOpen: number | undefined, expr?: Token[]): void {
     const startTok = sig[headerStart]!;
-    let body: Stmt[];
-    let bodyTokens: Token[];
-    let end: Token;
-    if (bodyOpen !== undefined) {
-      bodyTokens = bodyRange(bodyOpen);
-      body = braceStatements(bodyTokens, family, lang);
-      end = sig[partner[bodyOpen]!]!;
-    } else {
-      bodyTokens = expr ?? [];
-      body = [{ k: 'return', expr: bodyTokens, line: startTok.line }];
-      end = bodyTokens[bodyTokens.length - 1] ?? startTok;
-    }
+    const { body, bodyTokens, end } = readBody(startTok, bodyOpen, expr);
     const className = classAt(headerStart);
     functions.push({
       name, params: [{ name: param.text }], body, bodyTokens, start: startTok.start, end: end.end, line: startTok.line,
