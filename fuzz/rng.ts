@@ -76,3 +76,9 @@ export class Rng {
     return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * v);
   }
 }
+
+/** The same stream as a plain function, for tests that only need uniform numbers. */
+export function uniformStream(seed: number): () => number {
+  const g = new Rng(seed);
+  return () => g.next();
+}

@@ -7,6 +7,7 @@
 import * as fs from 'node:fs';
 import * as path from 'node:path';
 import Mocha from 'mocha';
+import { runMocha } from './support/run-mocha';
 
 function findTests(dir: string): string[] {
   const out: string[] = [];
@@ -37,14 +38,5 @@ export function run(): Promise<void> {
   }
   for (const f of files) mocha.addFile(f);
 
-  return new Promise<void>((resolve, reject) => {
-    try {
-      mocha.run((failures) => {
-        if (failures > 0) reject(new Error(`${failures} in-host test(s) failed`));
-        else resolve();
-      });
-    } catch (err) {
-      reject(err instanceof Error ? err : new Error(String(err)));
-    }
-  });
+  return runMocha(mocha);
 }

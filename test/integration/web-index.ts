@@ -3,17 +3,9 @@
 // with every test/integration/**/*.test.ts except `*.node.test.ts` into out/test/web/suite.js.
 import './web-setup';
 import { files } from 'virtual:integration-tests';
+import { runMocha } from './support/run-mocha';
 
 export function run(): Promise<void> {
   if (files.length === 0) return Promise.reject(new Error('no in-host test files were bundled into the web suite'));
-  return new Promise<void>((resolve, reject) => {
-    try {
-      mocha.run((failures) => {
-        if (failures > 0) reject(new Error(`${failures} in-host test(s) failed`));
-        else resolve();
-      });
-    } catch (err) {
-      reject(err instanceof Error ? err : new Error(String(err)));
-    }
-  });
+  return runMocha(mocha);
 }

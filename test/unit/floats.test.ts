@@ -3,18 +3,9 @@ import { f16round } from '@petamoriken/float16';
 import {
   FLOAT_FORMATS, roundToFormat, roundTo, bf16round, bfloat16FromFloat32Bits, float32Bits, ulp, f16roundFast,
 } from '../../src/core/floats';
+// deterministic (mulberry32), so failures reproduce
+import { uniformStream as rng } from '../../fuzz/rng';
 
-/** Deterministic generator (mulberry32) so failures reproduce. */
-function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 /** Random doubles spread over the exponent range of a format (subnormals, normals, overflow). */
 function randomDoubles(n: number, emin: number, emax: number, precision: number, seed: number): number[] {

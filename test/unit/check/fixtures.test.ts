@@ -4,27 +4,15 @@
 import * as assert from 'node:assert/strict';
 import * as fs from 'node:fs';
 import * as path from 'node:path';
+import { FIXTURES_ROOT, fixtureFiles } from './fixture-files';
 import { checkText } from '../../../src/core/check/index';
 import { findFormulas } from '../../../src/core/detect/index';
 
-const ROOT = path.resolve(__dirname, '..', '..', 'fixtures');
+const ROOT = FIXTURES_ROOT;
 const manifest = JSON.parse(fs.readFileSync(path.join(ROOT, 'expected.json'), 'utf8')) as {
   files: Record<string, { rule: string; line: number; bug: string }[]>;
 };
 
-/** Source fixtures on disk (everything except the manifest and the editor helper's workspace). */
-function fixtureFiles(): string[] {
-  const out: string[] = [];
-  const walk = (d: string): void => {
-    for (const n of fs.readdirSync(d).sort()) {
-      const p = path.join(d, n);
-      if (fs.statSync(p).isDirectory()) { if (n !== 'workspace') walk(p); }
-      else if (n !== 'expected.json') out.push(path.relative(ROOT, p).split(path.sep).join('/'));
-    }
-  };
-  walk(ROOT);
-  return out;
-}
 
 const RECALL_REQUIRED = 0.9;
 

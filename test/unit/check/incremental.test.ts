@@ -4,6 +4,8 @@
 import * as assert from 'node:assert/strict';
 import * as fs from 'node:fs';
 import * as path from 'node:path';
+import { FIXTURES_ROOT, fixtureFiles } from './fixture-files';
+import { uniformStream as rng } from '../../../fuzz/rng';
 import { checkSource, clearCheckCaches, createChecker, mayHaveStableRewrite, type CheckResult } from '../../../src/core/check/index';
 import { keyOf, Lru, paramsKey } from '../../../src/core/check/cache';
 import { parseFormula } from '../../../src/core/expr/parse';
@@ -11,32 +13,9 @@ import { stableRewrites } from '../../../src/core/analysis/index';
 import { CATALOGUE } from '../../../src/core/expr';
 import { FLOAT_TYPES } from '../../../src/core/types';
 
-const ROOT = path.resolve(__dirname, '..', '..', 'fixtures');
+const ROOT = FIXTURES_ROOT;
 
-function fixtureFiles(): string[] {
-  const out: string[] = [];
-  const walk = (d: string): void => {
-    for (const n of fs.readdirSync(d).sort()) {
-      const p = path.join(d, n);
-      if (fs.statSync(p).isDirectory()) { if (n !== 'workspace') walk(p); }
-      else if (n !== 'expected.json') out.push(path.relative(ROOT, p).split(path.sep).join('/'));
-    }
-  };
-  walk(ROOT);
-  return out;
-}
 
-/** A small seeded generator (mulberry32), so a failing series can be replayed. */
-function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 /**
  * One random edit of the kinds a person makes: a digit changed, a sign flipped, an operator swapped,
