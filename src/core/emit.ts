@@ -25,9 +25,7 @@ export interface EmitOptions {
 export function emitLanguageFor(language: Language | string | undefined, fileText?: string): EmitLanguage | undefined {
   switch (language) {
     case 'python':
-      if (fileText && /\bimport torch\b|\bfrom torch\b/.test(fileText)) return 'pytorch';
-      if (fileText && /\bimport numpy\b|\bfrom numpy\b/.test(fileText)) return 'numpy';
-      return 'python';
+      return fileText ? pythonFlavour(fileText) : 'python';
     case 'c': case 'cpp': case 'cuda': case 'javascript': case 'typescript': case 'rust': case 'julia': case 'go': case 'java':
     case 'numpy': case 'pytorch':
       return language;
@@ -37,6 +35,19 @@ export function emitLanguageFor(language: Language | string | undefined, fileTex
       return undefined;
   }
 }
+
+/**
+ * NumPy or PyTorch by the file's imports. A check asks once per finding with the same text: the
+ * last answer is kept (comparing the same string object again is O(1)).
+ */
+function pythonFlavour(fileText: string): EmitLanguage {
+  if (fileText === lastFlavour.text) return lastFlavour.flavour;
+  const flavour: EmitLanguage = /\bimport torch\b|\bfrom torch\b/.test(fileText) ? 'pytorch'
+    : /\bimport numpy\b|\bfrom numpy\b/.test(fileText) ? 'numpy' : 'python';
+  lastFlavour = { text: fileText, flavour };
+  return flavour;
+}
+let lastFlavour: { text: string; flavour: EmitLanguage } = { text: '', flavour: 'python' };
 
 export function commentPrefix(language: EmitLanguage): string {
   return language === 'python' || language === 'numpy' || language === 'pytorch' || language === 'julia' ? '#' : '//';

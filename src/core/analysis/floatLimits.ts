@@ -78,23 +78,44 @@ const MAX_INTERVALS = 40;
 
 type Kind = BreakdownKind | 'ok';
 
+/** Breakdown kind from the exact value at the rounded input (`ev`) and the value computed in the type (`g`). */
+function kindOf(ev: number, g: number, R: (v: number) => number, minNormal: number): Kind {
+  if (Number.isNaN(ev)) return 'ok'; // outside the formula's domain: nothing to compare
+  const e = R(ev);
+  if (Number.isNaN(g)) return 'nan';
+  if (!Number.isFinite(e)) return 'ok'; // the exact value overflows the type itself
+  if (!Number.isFinite(g)) return 'overflow';
+  if (g === 0 && e !== 0) return 'zero';
+  if (Math.abs(g - e) > RELATIVE_TOLERANCE * Math.max(Math.abs(e), minNormal)) return 'inaccurate';
+  return 'ok';
+}
+
 /** Breakdown kind at x: rounded evaluation against the exact value at the rounded input. */
 export function breakdownClassifier(exact: ScalarFn, rounded: ScalarFn, type: FloatType): (x: number) => Kind {
   const R = rounder(type);
   const minNormal = FLOAT_FORMATS[type].minNormal;
   return (x: number): Kind => {
-    const xr = R(x);
-    const ev = exact(xr);
-    if (Number.isNaN(ev)) return 'ok'; // outside the formula's domain: nothing to compare
-    const e = R(ev);
-    const g = rounded(x);
-    if (Number.isNaN(g)) return 'nan';
-    if (!Number.isFinite(e)) return 'ok'; // the exact value overflows the type itself
-    if (!Number.isFinite(g)) return 'overflow';
-    if (g === 0 && e !== 0) return 'zero';
-    if (Math.abs(g - e) > RELATIVE_TOLERANCE * Math.max(Math.abs(e), minNormal)) return 'inaccurate';
-    return 'ok';
+    const ev = exact(R(x));
+    return kindOf(ev, Number.isNaN(ev) ? NaN : rounded(x), R, minNormal);
   };
+}
+
+/**
+ * The exact values on the breakdown grid of one type and domain (input rounded to the type), to be
+ * shared by every breakdown scan against the same reference: a formula and each of its rewrites.
+ */
+export interface ExactOnGrid {
+  type: FloatType;
+  domain: readonly [number, number];
+  values: Float64Array;
+}
+
+export function exactOnGrid(exact: ScalarFn, type: FloatType, domain: readonly [number, number]): ExactOnGrid {
+  const R = rounder(type);
+  const grid = uniformGrid(domain[0], domain[1], BREAKDOWN_POINTS);
+  const values = new Float64Array(grid.length);
+  for (let i = 0; i < grid.length; i++) values[i] = exact(R(grid[i] as number));
+  return { type, domain, values };
 }
 
 /**
@@ -137,12 +158,22 @@ function runs<K extends string>(grid: readonly number[], classify: (x: number) =
   return out;
 }
 
-export function breakdownIntervals(exact: ScalarFn, rounded: ScalarFn, type: FloatType, domain: readonly [number, number]): BreakdownInterval[] {
+/**
+ * `reference`, when given, holds `exact` on this type's grid over this domain (`exactOnGrid`): the
+ * grid is then classified from it and `exact` is evaluated again only where an edge is refined.
+ */
+export function breakdownIntervals(exact: ScalarFn, rounded: ScalarFn, type: FloatType, domain: readonly [number, number], reference?: ExactOnGrid): BreakdownInterval[] {
   const classify = breakdownClassifier(exact, rounded, type);
   const grid = uniformGrid(domain[0], domain[1], BREAKDOWN_POINTS);
   const R = rounder(type);
+  let cls: Kind[] | undefined;
+  if (reference && reference.type === type && reference.domain[0] === domain[0] && reference.domain[1] === domain[1]) {
+    const minNormal = FLOAT_FORMATS[type].minNormal;
+    const ev = reference.values;
+    cls = grid.map((x, i) => kindOf(ev[i] as number, Number.isNaN(ev[i]) ? NaN : rounded(x), R, minNormal));
+  }
   const bisect = (c: (x: number) => Kind, a: number, b: number, ca: Kind): number => typeBisect(c, a, b, ca, R);
-  return runs<Kind>(grid, classify, 'ok', MAX_INTERVALS, undefined, bisect).map((r) => ({ from: tidy(r.from), to: tidy(r.to), kind: r.kind as BreakdownKind }));
+  return runs<Kind>(grid, classify, 'ok', MAX_INTERVALS, cls, bisect).map((r) => ({ from: tidy(r.from), to: tidy(r.to), kind: r.kind as BreakdownKind }));
 }
 
 /** Total length of breakdown intervals (to compare a formula with its rewrite). */

@@ -17,7 +17,7 @@
 import type { MathNode } from 'mathjs';
 import { compileRounded, compileScalar } from '../expr/compile';
 import type { FloatType } from '../types';
-import { breakdownIntervals, breakdownMeasure, type BreakdownInterval } from './floatLimits';
+import { breakdownIntervals, breakdownMeasure, exactOnGrid, type BreakdownInterval } from './floatLimits';
 import { instantiate, match, stableForm, type Match } from './patterns';
 
 export interface Suggestion {
@@ -87,19 +87,21 @@ export function stableRewrites(node: MathNode, dnode: MathNode | null, variable:
   const targets: Array<['function' | 'derivative', MathNode]> = [['function', node]];
   if (dnode) targets.push(['derivative', dnode]);
   for (const [target, tree] of targets) {
-    const found = candidates(tree).slice(0, MAX_REWRITES);
+    // A rewrite that changes the value in double is not a rewrite: filtered before any float scan.
+    const found = candidates(tree).slice(0, MAX_REWRITES).filter((c) => now() <= deadline && sameInDouble(tree, c.rewritten, variable, params));
     if (found.length === 0) continue;
     const exact = compileScalar(stableForm(tree), variable, params);
+    // The exact reference on each type's grid is the same for the tree and all its rewrites: once.
+    const refs = new Map(types.map((type) => [type, exactOnGrid(exact, type, domain)]));
     const before: Partial<Record<FloatType, BreakdownInterval[]>> = {};
-    for (const type of types) before[type] = known[target]?.[type] ?? breakdownIntervals(exact, compileRounded(tree, variable, params, type), type, domain);
+    for (const type of types) before[type] = known[target]?.[type] ?? breakdownIntervals(exact, compileRounded(tree, variable, params, type), type, domain, refs.get(type));
     for (const cand of found) {
       if (now() > deadline) break;
-      if (!sameInDouble(tree, cand.rewritten, variable, params)) continue;
       const after: Partial<Record<FloatType, BreakdownInterval[]>> = {};
       let helps = false;
       for (const type of types) {
         // The reference stays the original's exact value: the rewrite must reproduce it.
-        after[type] = breakdownIntervals(exact, compileRounded(cand.rewritten, variable, params, type), type, domain);
+        after[type] = breakdownIntervals(exact, compileRounded(cand.rewritten, variable, params, type), type, domain, refs.get(type));
         if (breakdownMeasure(after[type] ?? []) < breakdownMeasure(before[type] ?? []) - 1e-9) helps = true;
       }
       if (!helps) continue;

@@ -771,9 +771,13 @@ function clean(node: MathNode): MathNode {
   return c;
 }
 
+/** The cleaned tree's text, memoised by tree identity like `clean` (printing is a tree walk per finding). */
 function display(node: MathNode): string {
-  return clean(node).toString();
+  let t = displayed.get(node);
+  if (t === undefined) { t = clean(node).toString(); displayed.set(node, t); }
+  return t;
 }
+const displayed = new WeakMap<MathNode, string>();
 
 function mismatchFinding(d: Read, fwd: Read, v: Verdict, text: string, language: Language): Finding {
   const expected = display(v.expected);

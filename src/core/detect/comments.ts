@@ -113,6 +113,9 @@ function scanLineAt(
   const cl = lines[li]!;
   const text = stripMathDelimiters(cl.text);
   if (text.length === 0) return 1;
+  // Every definition has an `=` or a keyword head's `:` (findDefinition), and a rejection is kept
+  // only for a line with `=`: prose lines (most comment lines) stop here.
+  if (!cl.text.includes('=') && !text.includes('=') && !text.includes(':')) return 1;
   const lineReject = rejectLine(cl.text);
   if (lineReject) {
     if (cl.text.includes('=')) rejected.push({ line: cl.line, reason: lineReject });

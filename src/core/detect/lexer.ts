@@ -96,18 +96,35 @@ const OPS2 = [
 const ID_START = /[A-Za-z_$\u00c0-\u024f\u0370-\u03ff\u1f00-\u1fff]/;
 const ID_PART = /[A-Za-z0-9_$!\u00b2\u00b3\u00b9\u00c0-\u024f\u0370-\u03ff\u1f00-\u1fff\u2070-\u209f]/;
 
+/** Operators by their first character, longest first (the pass looks only at those that can match). */
+const OPS_BY_FIRST = new Map<string, string[]>();
+for (const o of [...OPS3, ...OPS2.filter((o) => o.length === 2)]) {
+  const l = OPS_BY_FIRST.get(o[0]!);
+  if (l) l.push(o); else OPS_BY_FIRST.set(o[0]!, [o]);
+}
+
 function isDigit(c: string | undefined): boolean {
   return c !== undefined && c >= '0' && c <= '9';
 }
 
+function isAsciiLetter(k: number): boolean {
+  return (k >= 97 && k <= 122) || (k >= 65 && k <= 90);
+}
+
 function isIdStart(c: string | undefined): boolean {
-  return c !== undefined && ID_START.test(c);
+  if (c === undefined) return false;
+  const k = c.charCodeAt(0);
+  // ASCII without the regex (this runs on every character of a file)
+  if (k < 128) return isAsciiLetter(k) || k === 95 || k === 36;
+  return ID_START.test(c);
 }
 
 function isIdPart(c: string | undefined, family: Family): boolean {
   if (c === undefined) return false;
+  const k = c.charCodeAt(0);
   // `!` is part of identifiers only in Julia/Rust macros (`push!`, `vec!`); elsewhere it is an operator.
-  if (c === '!') return family === 'julia';
+  if (k === 33) return family === 'julia';
+  if (k < 128) return isAsciiLetter(k) || (k >= 48 && k <= 57) || k === 95 || k === 36;
   return ID_PART.test(c);
 }
 
@@ -157,6 +174,8 @@ export function lex(text: string, info: LanguageInfo, maxLineLength: number): Le
   let lineStart = 0;
   let i = 0;
   const n = src.length;
+  // First characters of this language's comment markers: any other character skips those checks.
+  const markerFirst = new Set<string>([...cfg.block.map((b) => b.open[0]!), ...cfg.line.map((m) => m[0]!)]);
 
   const advanceLines = (from: number, to: number): void => {
     for (let k = from; k < to; k++) {
@@ -202,7 +221,8 @@ export function lex(text: string, info: LanguageInfo, maxLineLength: number): Le
 
     // Block comments.
     let matched = false;
-    for (const b of cfg.block) {
+    const marker = markerFirst.has(c);
+    if (marker) for (const b of cfg.block) {
       if (src.startsWith(b.open, i) && (!b.lineStart || atLineStart(i))) {
         const end = findBlockEnd(src, i + b.open.length, b.open, b.close, !!b.nested);
         const bodyEnd = Math.max(i + b.open.length, end - (end <= n && src.startsWith(b.close, end - b.close.length) ? b.close.length : 0));
@@ -232,7 +252,7 @@ export function lex(text: string, info: LanguageInfo, maxLineLength: number): Le
 
     // Line comments.
     let lc: string | undefined;
-    for (const m of cfg.line) if (src.startsWith(m, i)) { lc = m; break; }
+    if (marker) for (const m of cfg.line) if (src.startsWith(m, i)) { lc = m; break; }
     if (lc !== undefined) {
       // MATLAB: `#` is a comment only in Octave; `%` always. Julia `#=` handled above.
       const e = lineEnd(src, i);
@@ -353,8 +373,8 @@ export function lex(text: string, info: LanguageInfo, maxLineLength: number): Le
 
     // Operators.
     let op = 1;
-    for (const o of OPS3) if (src.startsWith(o, i)) { op = 3; break; }
-    if (op === 1) for (const o of OPS2) if (o.length === 2 && src.startsWith(o, i)) { op = 2; break; }
+    const cands = OPS_BY_FIRST.get(c);
+    if (cands) for (const o of cands) if (src.startsWith(o, i)) { op = o.length; break; }
     push('op', i, i + op);
     i += op;
   }
