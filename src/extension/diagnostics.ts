@@ -36,7 +36,7 @@ export class DiagnosticsManager implements vscode.Disposable {
   readonly collection = vscode.languages.createDiagnosticCollection('slopewise');
   private readonly timers = new Map<string, ReturnType<typeof setTimeout>>();
   private readonly state = new Map<string, DocState>();
-  /** One incremental checker per open document (bounded caches; see core/check/cache.ts). */
+  /** One incremental checker per open document (bounded caches; see core/cache.ts). */
   private readonly checkers = new Map<string, Checker>();
   /** Findings of files checked by the workspace command that are not open (for code actions once opened). */
   private readonly stored = new Map<string, { text: string; findings: Finding[] }>();

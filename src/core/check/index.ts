@@ -17,7 +17,7 @@ import { compileScalar } from '../expr/compile';
 import { analyzePairing, stableRewrites } from '../analysis/index';
 import { emitCode, emitLanguageFor } from '../emit';
 import { parseNumber } from '../detect/code';
-import { analyzeSource, derivativeBase, hasSymbol, replaceSymbol, stripKernelSuffix, type CodeFormula, type SourceModel } from '../detect/index';
+import { analyzeSource, DetectMemo, derivativeBase, hasSymbol, replaceSymbol, stripKernelSuffix, type CodeFormula, type SourceModel } from '../detect/index';
 import type { CommentFormula } from '../detect/comments';
 import type { Token } from '../detect/lexer';
 import { BATCH_SYMBOL, matchClose, splitArgs } from '../detect/stmt';
@@ -25,7 +25,7 @@ import { compareFunctions, samplePoints, type Comparison } from './compare';
 import { math } from '../math';
 import { MESSAGES } from './messages';
 import { TARGET_NAMES, OUTPUT_NAMES, UPSTREAM_NAMES } from '../detect/words';
-import { keyOf, Lru, memo, paramsKey } from './cache';
+import { keyOf, Lru, memo, paramsKey } from '../cache';
 
 /** Width (in x) of a float32 breakdown interval of kind zero/inaccurate that is worth a warning. */
 export const SEVERE_WIDTH = 1;
@@ -40,12 +40,12 @@ export interface CheckOptions {
   limits?: Partial<Limits>;
   /** Rules to run (default all). */
   rules?: readonly Finding['rule'][];
-  /** Where to keep parsed formulas and comparisons (default: one shared, bounded cache; see cache.ts). */
+  /** Where to keep parsed formulas and comparisons (default: one shared, bounded cache; see ../cache.ts). */
   cache?: CheckCache;
 }
 
 /**
- * Results the checker reuses, each a pure function of its key (cache.ts): formulas by (text,
+ * Results the checker reuses, each a pure function of its key (../cache.ts): formulas by (text,
  * notation, variable, parameter bindings); comparisons by the keys of both formulas plus the argument
  * form, the upstream names and the defaults both sides declare; float analyses by the formula's key.
  * Nothing keyed here depends on where in a file the formula is.
@@ -58,7 +58,10 @@ export class CheckCache {
   readonly vanishing = new Lru<{ w?: VanishingCore }>();
   /** Code emitted for fixes, by (expression text, variables, target language). */
   readonly emitted = new Lru<{ code?: string }>();
+  /** Detection results per function and per comment block (see DetectMemo). */
+  readonly detect = new DetectMemo();
   clear(): void {
+    this.detect.clear();
     this.emitted.clear();
     this.parse.clear();
     this.verdict.clear();
@@ -140,7 +143,7 @@ export function checkSource(text: string, opts: CheckOptions = {}): CheckResult 
 
 function checkSourceWith(text: string, opts: CheckOptions): CheckResult {
   const limits = { ...LIMITS, ...opts.limits };
-  const model = analyzeSource(text, opts);
+  const model = analyzeSource(text, { ...opts, memo: active.detect });
   const notes = [...model.skipped];
   const started = Date.now();
   const rules = new Set(opts.rules ?? ['derivative-mismatch', 'formula-mismatch', 'unstable-form', 'vanishing-pair']);

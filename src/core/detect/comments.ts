@@ -13,6 +13,7 @@
  */
 import type { Comment, CommentLine } from './lexer';
 import type { FormulaRole, Span } from '../types';
+import { keyOf } from '../cache';
 import { isAsciiArt, isIndexArithmetic, isShape, rejectFormulaText, rejectLine } from './reject';
 import {
   LOSS_SYMBOLS, LOSS_WORDS, MATH_WORDS, OUTPUT_NAMES, PIECE_WORDS, TARGET_NAMES, VARIABLE_WORDS,
@@ -59,23 +60,54 @@ interface Head {
 
 const OUTPUT_TEXT = ['in terms of the output', 'of the output', 'saved output', 'from the output', 'takes the output', 'output form', 'given the output', 'in terms of y', 'in terms of s'];
 
-export function scanComments(comments: Comment[]): CommentScan {
+/**
+ * `memo`, when given, keeps each comment block's result keyed by the block's lines with offsets and
+ * line numbers relative to its first line (see DetectMemo in index.ts): an unchanged block that moved
+ * is rebased instead of read again.
+ */
+export function scanComments(comments: Comment[], memo?: { get(key: string): CommentScan | undefined; set(key: string, v: CommentScan): void }): CommentScan {
   const groups = groupComments(comments);
   const formulas: CommentFormula[] = [];
   const rejected: { line: number; reason: string }[] = [];
   const groupInfo: CommentScan['groups'] = [];
   groups.forEach((g, gi) => {
-    const blockText = g.lines.map((l) => l.text).join('\n');
-    const lower = blockText.toLowerCase();
-    const outputHint = OUTPUT_TEXT.some((t) => lower.includes(t));
-    groupInfo.push({ firstLine: g.lines[0]!.line, lastLine: g.lines[g.lines.length - 1]!.line, docstring: g.doc, text: blockText });
-    let li = 0;
-    while (li < g.lines.length) {
-      const consumed = scanLineAt(g.lines, li, gi, g.doc, outputHint, formulas, rejected);
-      li += Math.max(1, consumed);
+    const first = g.lines[0]!;
+    if (!memo) {
+      scanGroup(g, gi, formulas, rejected, groupInfo);
+      return;
     }
+    const parts: (string | number | boolean)[] = [g.doc, g.lines.length];
+    for (const l of g.lines) parts.push(l.text, l.start - first.start, l.line - first.line);
+    const key = keyOf(...parts);
+    let rel = memo.get(key);
+    if (!rel) {
+      // scanned as if the block were group 0 at offset 0, line 0
+      const f: CommentFormula[] = [];
+      const r: { line: number; reason: string }[] = [];
+      const gr: CommentScan['groups'] = [];
+      scanGroup({ doc: g.doc, lines: g.lines.map((l) => ({ text: l.text, start: l.start - first.start, line: l.line - first.line })) }, 0, f, r, gr);
+      rel = { formulas: f, rejected: r, groups: gr };
+      memo.set(key, rel);
+    }
+    const dStart = first.start;
+    const dLine = first.line;
+    for (const f of rel.formulas) formulas.push({ ...f, args: [...f.args], span: { start: f.span.start + dStart, end: f.span.end + dStart }, line: f.line + dLine, endLine: f.endLine + dLine, group: gi });
+    for (const r of rel.rejected) rejected.push({ line: r.line + dLine, reason: r.reason });
+    for (const x of rel.groups) groupInfo.push({ ...x, firstLine: x.firstLine + dLine, lastLine: x.lastLine + dLine });
   });
   return { formulas, rejected, groups: groupInfo };
+}
+
+function scanGroup(g: Group, gi: number, formulas: CommentFormula[], rejected: { line: number; reason: string }[], groupInfo: CommentScan['groups']): void {
+  const blockText = g.lines.map((l) => l.text).join('\n');
+  const lower = blockText.toLowerCase();
+  const outputHint = OUTPUT_TEXT.some((t) => lower.includes(t));
+  groupInfo.push({ firstLine: g.lines[0]!.line, lastLine: g.lines[g.lines.length - 1]!.line, docstring: g.doc, text: blockText });
+  let li = 0;
+  while (li < g.lines.length) {
+    const consumed = scanLineAt(g.lines, li, gi, g.doc, outputHint, formulas, rejected);
+    li += Math.max(1, consumed);
+  }
 }
 
 interface Group {

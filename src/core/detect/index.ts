@@ -11,10 +11,11 @@ import { LIMITS, type Limits } from '../limits';
 import type { FormulaRole, FoundFormula, Language, Span } from '../types';
 import { parseFormula } from '../expr/parse';
 import { languageInfo, type LanguageInfo } from './languages';
-import { lex, type Lexed, type Token } from './lexer';
+import { lex, relex, type Lexed, type Token } from './lexer';
 import { scanComments, type CommentFormula, type CommentScan } from './comments';
 import { parseNumber, readCode, type CodeModel, type FunctionDef } from './code';
 import { reduce, type RenderContext } from './stmt';
+import { keyOf, Lru } from '../cache';
 import { LOSS_WORDS, OUTPUT_NAMES, UPSTREAM_NAMES } from './words';
 
 export { languageInfo } from './languages';
@@ -23,6 +24,29 @@ export interface DetectOptions {
   languageId?: string;
   fileName?: string;
   limits?: Partial<Limits>;
+  /** What earlier scans (of this document, usually) found, to reuse for unchanged functions and comments. */
+  memo?: DetectMemo;
+}
+
+/** A code formula without where it sits: what a function's content alone determines. */
+type PlacelessFormula = Omit<CodeFormula, 'fn' | 'span' | 'line' | 'endLine'>;
+
+/**
+ * Detection results of one function or one comment block, keyed by everything they are computed
+ * from with positions made relative to the function or block (so an edit elsewhere in the file,
+ * which shifts offsets and lines, still hits), and rebased onto the current positions on a hit.
+ * Bounded (LRU); a miss only costs the time of reading the function or block again.
+ */
+export class DetectMemo {
+  readonly functions = new Lru<{ f?: PlacelessFormula }>(2000);
+  readonly comments = new Lru<CommentScan>(2000);
+  /** The last text lexed, and how: the next scan lexes only what changed (lexer.ts `relex`). */
+  last?: { text: string; family: LanguageInfo['family']; language: LanguageInfo['language']; fixedForm: LanguageInfo['fixedForm']; maxLineLength: number; lexed: Lexed };
+  clear(): void {
+    this.functions.clear();
+    this.comments.clear();
+    delete this.last;
+  }
 }
 
 export interface CodeFormula {
@@ -109,12 +133,17 @@ export function analyzeSource(text: string, opts: DetectOptions = {}): SourceMod
   const started = Date.now();
   if (text.length > limits.maxFileBytes) {
     skipped.push(`file is larger than ${limits.maxFileBytes} characters: not scanned`);
-    const empty: Lexed = { tokens: [], comments: [], lineStarts: [0], longLines: [] };
+    const empty: Lexed = { tokens: [], comments: [], lineStarts: [0], longLines: [], clean: new Uint8Array([1]) };
     return { info, lexed: empty, comments: { formulas: [], rejected: [], groups: [] }, code: { functions: [], constants: [], topTokens: [] }, codeFormulas: [], commentFormulas: [], constants: {}, skipped };
   }
-  const lexed = lex(text, info, limits.maxLineLength);
+  // with a memo, the last file lexed in the same language and limit is the starting point (relex)
+  const last = opts.memo?.last;
+  const lexed = last && last.family === info.family && last.language === info.language && last.fixedForm === info.fixedForm && last.maxLineLength === limits.maxLineLength
+    ? relex(last.text, last.lexed, text, info, limits.maxLineLength)
+    : lex(text, info, limits.maxLineLength);
+  if (opts.memo) opts.memo.last = { text, family: info.family, language: info.language, fixedForm: info.fixedForm, maxLineLength: limits.maxLineLength, lexed };
   if (lexed.longLines.length > 0) skipped.push(`${lexed.longLines.length} line(s) longer than ${limits.maxLineLength} characters skipped (first: line ${lexed.longLines[0]! + 1})`);
-  const comments = scanComments(lexed.comments);
+  const comments = scanComments(lexed.comments, opts.memo?.comments);
   const code = readCode(lexed.tokens, info);
   const constants: Record<string, number> = {};
   for (const c of code.constants) if (!(c.name in constants)) constants[c.name] = c.value;
@@ -152,7 +181,7 @@ export function analyzeSource(text: string, opts: DetectOptions = {}): SourceMod
         if (again) codeFormulas.push(again);
         continue;
       }
-      const cf = functionFormula(fn, info, pass === 1 ? plain : undefined, constants);
+      const cf = opts.memo ? memoFunctionFormula(opts.memo, fn, info, pass === 1 ? plain : undefined, constants, text) : functionFormula(fn, info, pass === 1 ? plain : undefined, constants);
       if (pass === 0) {
         firstPass.set(fn, cf);
         if (cf) plain.set(fn.name, { text: cf.text, params: fn.params.filter((p) => !SKIP_PARAMS.has(p.name)).map((p) => p.name) });
@@ -163,6 +192,47 @@ export function analyzeSource(text: string, opts: DetectOptions = {}): SourceMod
   }
   linkSavedValues(codeFormulas);
   return { info, lexed, comments, code, codeFormulas, commentFormulas: comments.formulas, constants, skipped };
+}
+
+/**
+ * `functionFormula` through the memo. The key is the function's source text from its header to its
+ * end (every token of its definition lies there: offsets, lines and columns relative to the header
+ * follow from it), the header's column, the fields readCode fills from outside that text (class,
+ * decorators, flags), the language, the file constants its defaults name and, when inlining, the
+ * first-pass texts of the other functions whose names occur in it.
+ */
+function memoFunctionFormula(
+  memo: DetectMemo, fn: FunctionDef, info: LanguageInfo, inlineTable: Map<string, { text: string; params: string[] }> | undefined,
+  constants: Record<string, number>, text: string,
+): CodeFormula | undefined {
+  const body = text.slice(fn.start, fn.end);
+  const col = fn.start - (text.lastIndexOf('\n', fn.start - 1) + 1);
+  const parts: (string | number | boolean | undefined)[] = [info.family, info.language, info.fixedForm, fn.name, fn.className, fn.elementwise, fn.resultVar, fn.decorators.join('\n'), col, body];
+  for (const p of fn.params) {
+    const only = p.default?.length === 1 ? p.default[0]! : undefined;
+    if (only?.kind === 'id' && only.text in constants) parts.push(p.name, constants[only.text]);
+  }
+  if (inlineTable) {
+    for (const [name, callee] of inlineTable) {
+      if (name !== fn.name && body.includes(name)) parts.push(name, callee.text, callee.params.join(','));
+    }
+  }
+  const key = keyOf(inlineTable ? 'inline' : 'plain', ...parts);
+  let hit = memo.functions.get(key);
+  if (!hit) {
+    const cf = functionFormula(fn, info, inlineTable, constants);
+    if (cf) {
+      const { fn: _fn, span: _span, line: _line, endLine: _endLine, ...rest } = cf;
+      hit = { f: rest };
+    } else hit = {};
+    memo.functions.set(key, hit);
+  }
+  if (!hit.f) return undefined;
+  // a fresh object: linkSavedValues sets role, variable and argument on the file's formulas
+  const f = hit.f;
+  const out: CodeFormula = { ...f, params: { ...f.params }, upstream: [...f.upstream], fn, span: { start: fn.start, end: fn.end }, line: fn.line, endLine: fn.endLine };
+  if (f.tuple) out.tuple = [...f.tuple];
+  return out;
 }
 
 function functionFormula(

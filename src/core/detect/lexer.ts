@@ -44,6 +44,12 @@ export interface Lexed {
   lineStarts: number[];
   /** Lines skipped because they exceed LIMITS.maxLineLength (0-based). */
   longLines: number[];
+  /**
+   * Per line: 1 when the pass reached the line's start outside any token or comment, right after
+   * the previous line's newline token (line 0 always). Lexing from such a point depends only on the
+   * text after it, which is what lets `relex` restart and stop there.
+   */
+  clean: Uint8Array;
 }
 
 interface LexConfig {
@@ -129,9 +135,18 @@ function isIdPart(c: string | undefined, family: Family): boolean {
 }
 
 export function lex(text: string, info: LanguageInfo, maxLineLength: number): Lexed {
-  const cfg = CONFIG[info.family];
+  const { lineStarts, longLines, src } = prepare(text, maxLineLength);
+  if (info.family === 'markdown') return proseLines(src, lineStarts, longLines);
+  const clean = new Uint8Array(lineStarts.length);
+  clean[0] = 1;
   const tokens: Token[] = [];
   const comments: Comment[] = [];
+  run(src, info, { offset: 0, line: 0, tokens, comments, clean });
+  return { tokens, comments, lineStarts, longLines, clean };
+}
+
+/** Line starts, the lines over the length limit, and the text with those lines blanked out. */
+function prepare(text: string, maxLineLength: number): { lineStarts: number[]; longLines: number[]; src: string } {
   const lineStarts: number[] = [0];
   const longLines: number[] = [];
   for (let i = 0; i < text.length; i++) if (text.charCodeAt(i) === 10) lineStarts.push(i + 1);
@@ -157,22 +172,47 @@ export function lex(text: string, info: LanguageInfo, maxLineLength: number): Le
     parts.push(text.slice(prev));
     src = parts.join('');
   }
+  return { lineStarts, longLines, src };
+}
 
-  if (info.family === 'markdown') {
-    // Prose files: every line is a candidate line, as if it were a comment.
-    const lines: CommentLine[] = [];
-    for (let l = 0; l < lineStarts.length; l++) {
-      const s = lineStarts[l]!;
-      const e = l + 1 < lineStarts.length ? lineStarts[l + 1]! - 1 : src.length;
-      pushLine(lines, src, s, e, l, '');
-    }
-    if (lines.length > 0) comments.push({ kind: 'block', start: 0, end: src.length, lines });
-    return { tokens, comments, lineStarts, longLines };
+/** Prose files: every line is a candidate line, as if it were a comment. */
+function proseLines(src: string, lineStarts: number[], longLines: number[]): Lexed {
+  const comments: Comment[] = [];
+  const lines: CommentLine[] = [];
+  for (let l = 0; l < lineStarts.length; l++) {
+    const s = lineStarts[l]!;
+    const e = l + 1 < lineStarts.length ? lineStarts[l + 1]! - 1 : src.length;
+    pushLine(lines, src, s, e, l, '');
   }
+  if (lines.length > 0) comments.push({ kind: 'block', start: 0, end: src.length, lines });
+  const clean = new Uint8Array(lineStarts.length);
+  clean.fill(1);
+  return { tokens: [], comments, lineStarts, longLines, clean };
+}
 
-  let line = 0;
-  let lineStart = 0;
-  let i = 0;
+interface RunState {
+  /** Where to start: a clean line start (or 0). */
+  offset: number;
+  line: number;
+  /** Everything lexed before `offset`; the pass appends. */
+  tokens: Token[];
+  comments: Comment[];
+  /** Marked for every clean line start the pass reaches. */
+  clean: Uint8Array;
+  /**
+   * Asked at every clean line start reached after `offset`: true stops the pass there (the caller
+   * takes the rest from an earlier pass). Returns where it stopped, or -1 at the end of the text.
+   */
+  stopAt?: (offset: number, line: number) => boolean;
+}
+
+/** The pass itself, from a clean line start; returns the offset and line where `stopAt` stopped it, or null. */
+function run(src: string, info: LanguageInfo, st: RunState): { offset: number; line: number } | null {
+  const cfg = CONFIG[info.family];
+  const { tokens, comments, clean } = st;
+  let line = st.line;
+  let lineStart = st.offset;
+  let i = st.offset;
   const n = src.length;
   // First characters of this language's comment markers: any other character skips those checks.
   const markerFirst = new Set<string>([...cfg.block.map((b) => b.open[0]!), ...cfg.line.map((m) => m[0]!)]);
@@ -204,6 +244,8 @@ export function lex(text: string, info: LanguageInfo, maxLineLength: number): Le
       i++;
       line++;
       lineStart = i;
+      clean[line] = 1;
+      if (st.stopAt && st.stopAt(i, line)) return { offset: i, line };
       continue;
     }
     if (c === ' ' || c === '\t' || c === '\r' || c === '\f' || c === '\v') {
@@ -378,7 +420,7 @@ export function lex(text: string, info: LanguageInfo, maxLineLength: number): Le
     push('op', i, i + op);
     i += op;
   }
-  return { tokens, comments, lineStarts, longLines };
+  return null;
 }
 
 function isStringPrefixOnly(prev: Token, src: string, quoteAt: number): boolean {
@@ -516,4 +558,74 @@ function pushLine(lines: CommentLine[], src: string, s: number, e: number, line:
   let b = e;
   while (b > a && (src[b - 1] === ' ' || src[b - 1] === '\t' || src[b - 1] === '\r')) b--;
   lines.push({ text: src.slice(a, b), start: a, line });
+}
+
+/** Characters a token may look past its end (operators, number suffixes, Fortran dots): a restart keeps this far before a change. */
+const LOOKAHEAD_MARGIN = 16;
+
+/** The first index k < n with at(k) ≥ v (n if none), for `at` ascending in k. */
+function firstAtLeast(n: number, v: number, at: (k: number) => number): number {
+  let lo = 0;
+  let hi = n;
+  while (lo < hi) { const mid = (lo + hi) >> 1; if (at(mid) < v) lo = mid + 1; else hi = mid; }
+  return lo;
+}
+
+/**
+ * `lex(text, …)`, reusing `prev` — the pass over `prevText` with the same language and limit —
+ * outside the edited region. The pass restarts at the last clean line start at least
+ * LOOKAHEAD_MARGIN characters before the first changed character, and stops at the first clean line
+ * start after the last changed character that was also clean in `prev`: from there both texts are
+ * the same and lexing depends only on what follows (see `Lexed.clean`), so the rest of `prev` is
+ * taken with offsets and lines shifted. Same result as `lex`; files with over-long lines and prose
+ * files are lexed whole.
+ */
+export function relex(prevText: string, prev: Lexed, text: string, info: LanguageInfo, maxLineLength: number): Lexed {
+  if (text === prevText) return prev;
+  if (info.family === 'markdown' || prev.longLines.length > 0) return lex(text, info, maxLineLength);
+  const { lineStarts, longLines, src } = prepare(text, maxLineLength);
+  if (longLines.length > 0) return lex(text, info, maxLineLength);
+  const min = Math.min(prevText.length, text.length);
+  let p = 0;
+  while (p < min && prevText.charCodeAt(p) === text.charCodeAt(p)) p++;
+  let s = 0;
+  while (s < min - p && prevText.charCodeAt(prevText.length - 1 - s) === text.charCodeAt(text.length - 1 - s)) s++;
+  const delta = text.length - prevText.length;
+  const changeEnd = text.length - s; // first character of the common suffix, in `text`
+
+  // restart: the last clean line of prev that starts at least the margin before the change
+  let r = firstAtLeast(prev.lineStarts.length, p - LOOKAHEAD_MARGIN + 1, (k) => prev.lineStarts[k]!) - 1;
+  while (r > 0 && prev.clean[r] !== 1) r--;
+  if (r < 0) r = 0;
+  const from = prev.lineStarts[r]!;
+  const clean = new Uint8Array(lineStarts.length);
+  clean.set(prev.clean.subarray(0, r + 1));
+  const tokens = prev.tokens.slice(0, firstAtLeast(prev.tokens.length, from, (k) => prev.tokens[k]!.start));
+  const comments = prev.comments.slice(0, firstAtLeast(prev.comments.length, from, (k) => prev.comments[k]!.start));
+
+  let oldLine = -1;
+  const stopped = run(src, info, {
+    offset: from, line: r, tokens, comments, clean,
+    stopAt: (q) => {
+      if (q < changeEnd) return false;
+      const l = firstAtLeast(prev.lineStarts.length, q - delta, (k) => prev.lineStarts[k]!);
+      if (l >= prev.lineStarts.length || prev.lineStarts[l] !== q - delta || prev.clean[l] !== 1) return false;
+      oldLine = l;
+      return true;
+    },
+  });
+  if (stopped) {
+    const q = stopped.offset - delta;
+    const dl = stopped.line - oldLine;
+    for (let k = firstAtLeast(prev.tokens.length, q, (j) => prev.tokens[j]!.start); k < prev.tokens.length; k++) {
+      const t = prev.tokens[k]!;
+      tokens.push({ kind: t.kind, text: t.text, start: t.start + delta, end: t.end + delta, line: t.line + dl, col: t.col });
+    }
+    for (let k = firstAtLeast(prev.comments.length, q, (j) => prev.comments[j]!.start); k < prev.comments.length; k++) {
+      const c = prev.comments[k]!;
+      comments.push({ kind: c.kind, start: c.start + delta, end: c.end + delta, lines: c.lines.map((l) => ({ text: l.text, start: l.start + delta, line: l.line + dl })) });
+    }
+    for (let l = oldLine; l < prev.clean.length; l++) clean[l + dl] = prev.clean[l]!;
+  }
+  return { tokens, comments, lineStarts, longLines, clean };
 }

@@ -7,7 +7,7 @@ import * as path from 'node:path';
 import { FIXTURES_ROOT, fixtureFiles } from './fixture-files';
 import { uniformStream as rng } from '../../../fuzz/rng';
 import { checkSource, clearCheckCaches, createChecker, mayHaveStableRewrite, type CheckResult } from '../../../src/core/check/index';
-import { keyOf, Lru, paramsKey } from '../../../src/core/check/cache';
+import { keyOf, Lru, paramsKey } from '../../../src/core/cache';
 import { parseFormula } from '../../../src/core/expr/parse';
 import { stableRewrites } from '../../../src/core/analysis/index';
 import { CATALOGUE } from '../../../src/core/expr';

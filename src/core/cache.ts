@@ -1,5 +1,5 @@
 /**
- * Memory for the checker: bounded, pure (no Node APIs), keyed only by what a result depends on.
+ * Memory for the checker and detection: bounded, pure (no Node APIs), keyed only by what a result depends on.
  *
  * Every cached value is a pure function of its key — the formula text, the notation it is read in,
  * the variable and the parameter bindings (for a comparison: those of both sides, the argument form
