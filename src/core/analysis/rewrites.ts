@@ -95,6 +95,8 @@ export function stableRewrites(node: MathNode, dnode: MathNode | null, variable:
     const refs = new Map(types.map((type) => [type, exactOnGrid(exact, type, domain)]));
     const before: Partial<Record<FloatType, BreakdownInterval[]>> = {};
     for (const type of types) before[type] = known[target]?.[type] ?? breakdownIntervals(exact, compileRounded(tree, variable, params, type), type, domain, refs.get(type));
+    // a rewrite helps only by shortening a breakdown: with none in any type, none can
+    if (types.every((type) => breakdownMeasure(before[type] ?? []) <= 1e-9)) continue;
     for (const cand of found) {
       if (now() > deadline) break;
       const after: Partial<Record<FloatType, BreakdownInterval[]>> = {};

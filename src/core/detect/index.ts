@@ -155,20 +155,22 @@ export function analyzeSource(text: string, opts: DetectOptions = {}): SourceMod
   // Two passes: first without inlining (to know each function's own expression), then inlining
   // calls to same-file functions (depth ≤ 2 through the first pass's texts).
   // A function that names no other function of the file (no id token between its start and end
-  // equal to another function's name) cannot inline anything: the second pass's inliner would return
+  // equal to another function's name: `inlinable`) cannot inline anything: the second pass's inliner would return
   // nothing for every call (stmt.ts only inlines when ctx.inline gives a text), so its first-pass
   // result is its second-pass result and is reused instead of read again.
   const firstPass = new Map<FunctionDef, CodeFormula | undefined>();
-  const mayInline = (fn: FunctionDef): boolean => {
+  /** The other functions of the file that `fn` names (those the second pass may inline). */
+  const inlinable = (fn: FunctionDef): string[] => {
     const toks = lexed.tokens;
     let lo = 0;
     let hi = toks.length;
     while (lo < hi) { const mid = (lo + hi) >> 1; if (toks[mid]!.start < fn.start) lo = mid + 1; else hi = mid; }
+    const names = new Set<string>();
     for (let i = lo; i < toks.length && toks[i]!.start < fn.end; i++) {
       const t = toks[i]!;
-      if (t.kind === 'id' && t.text !== fn.name && plain.has(t.text)) return true;
+      if (t.kind === 'id' && t.text !== fn.name && plain.has(t.text)) names.add(t.text);
     }
-    return false;
+    return [...names];
   };
   for (const pass of [0, 1]) {
     for (const fn of code.functions) {
@@ -176,12 +178,13 @@ export function analyzeSource(text: string, opts: DetectOptions = {}): SourceMod
         skipped.push(`time budget of ${limits.fileBudgetMs} ms per file ran out: later functions not read`);
         break;
       }
-      if (pass === 1 && firstPass.has(fn) && !mayInline(fn)) {
+      const names = pass === 1 ? inlinable(fn) : [];
+      if (pass === 1 && firstPass.has(fn) && names.length === 0) {
         const again = firstPass.get(fn);
         if (again) codeFormulas.push(again);
         continue;
       }
-      const cf = opts.memo ? memoFunctionFormula(opts.memo, fn, info, pass === 1 ? plain : undefined, constants, text) : functionFormula(fn, info, pass === 1 ? plain : undefined, constants);
+      const cf = opts.memo ? memoFunctionFormula(opts.memo, fn, info, pass === 1 ? plain : undefined, names, constants, text) : functionFormula(fn, info, pass === 1 ? plain : undefined, constants);
       if (pass === 0) {
         firstPass.set(fn, cf);
         if (cf) plain.set(fn.name, { text: cf.text, params: fn.params.filter((p) => !SKIP_PARAMS.has(p.name)).map((p) => p.name) });
@@ -199,11 +202,12 @@ export function analyzeSource(text: string, opts: DetectOptions = {}): SourceMod
  * end (every token of its definition lies there: offsets, lines and columns relative to the header
  * follow from it), the header's column, the fields readCode fills from outside that text (class,
  * decorators, flags), the language, the file constants its defaults name and, when inlining, the
- * first-pass texts of the other functions whose names occur in it.
+ * first-pass texts of the other functions it names (`inlinable`: its id tokens that name one; the
+ * inliner looks up no other name).
  */
 function memoFunctionFormula(
   memo: DetectMemo, fn: FunctionDef, info: LanguageInfo, inlineTable: Map<string, { text: string; params: string[] }> | undefined,
-  constants: Record<string, number>, text: string,
+  inlinable: readonly string[], constants: Record<string, number>, text: string,
 ): CodeFormula | undefined {
   const body = text.slice(fn.start, fn.end);
   const col = fn.start - (text.lastIndexOf('\n', fn.start - 1) + 1);
@@ -213,8 +217,9 @@ function memoFunctionFormula(
     if (only?.kind === 'id' && only.text in constants) parts.push(p.name, constants[only.text]);
   }
   if (inlineTable) {
-    for (const [name, callee] of inlineTable) {
-      if (name !== fn.name && body.includes(name)) parts.push(name, callee.text, callee.params.join(','));
+    for (const name of inlinable) {
+      const callee = inlineTable.get(name)!;
+      parts.push(name, callee.text, callee.params.join(','));
     }
   }
   const key = keyOf(inlineTable ? 'inline' : 'plain', ...parts);
