@@ -3,18 +3,15 @@
  * `slopewise.checkWhen` setting), with the rule id as the diagnostic code, the forward as related
  * information and severities from settings. Also caches detected formulas per document version for
  * the hover provider and the commands. Each open document has its own incremental checker
- * (core/check `createChecker`): a re-check after an edit reuses the comparisons of the functions the
- * edit did not touch, and returns exactly what a full check would. Dropped when the document closes.
+ * (engine.documentChecker): a re-check after an edit reuses what the edit did not touch — the lexing
+ * outside the edited lines, each unchanged function's and comment block's detection, the comparisons —
+ * and returns exactly what a full check would. Dropped when the document closes.
  */
 import * as vscode from 'vscode';
 import type { Finding, FoundFormula, RuleId } from '../core/types';
 import type { Config, RuleSeverity } from './config';
 import { coreLanguage } from './languages';
 import * as engine from './engine';
-// The checker object itself is not behind engine.ts (owned elsewhere; it offers only the one-shot
-// checkText): the options are built here exactly as engine.checkTextIn builds them.
-import { createChecker, type Checker, type CheckOptions } from '../core/check';
-import { LIMITS } from '../core/limits';
 
 /** Shared by the diagnostics and the code-action provider that fixes them. */
 export const DIAGNOSTIC_SOURCE = 'Slopewise';
@@ -37,7 +34,7 @@ export class DiagnosticsManager implements vscode.Disposable {
   private readonly timers = new Map<string, ReturnType<typeof setTimeout>>();
   private readonly state = new Map<string, DocState>();
   /** One incremental checker per open document (bounded caches; see core/cache.ts). */
-  private readonly checkers = new Map<string, Checker>();
+  private readonly checkers = new Map<string, engine.DocumentChecker>();
   /** Findings of files checked by the workspace command that are not open (for code actions once opened). */
   private readonly stored = new Map<string, { text: string; findings: Finding[] }>();
 
@@ -130,13 +127,10 @@ export class DiagnosticsManager implements vscode.Disposable {
       const key = doc.uri.toString();
       let checker = this.checkers.get(key);
       if (!checker) {
-        checker = createChecker();
+        checker = engine.documentChecker();
         this.checkers.set(key, checker);
       }
-      const o: Omit<CheckOptions, 'cache'> = { languageId: coreLanguage(doc.languageId) ?? 'plain', fileName: doc.fileName };
-      // Settings may lower the core's limit, never raise it.
-      o.limits = { maxFormulasPerFile: Math.min(config.maxFormulasPerFile, LIMITS.maxFormulasPerFile) as typeof LIMITS.maxFormulasPerFile };
-      const findings = checker.check(text, o);
+      const findings = checker.check(text, { languageId: coreLanguage(doc.languageId) ?? 'plain', fileName: doc.fileName, maxFormulasPerFile: config.maxFormulasPerFile });
       const s = this.docState(doc);
       s.findings = findings;
       const diags = this.toDiagnostics(findings, (off) => doc.positionAt(off), doc.uri, config);

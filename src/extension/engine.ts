@@ -11,7 +11,7 @@ import { compileScalar } from '../core/expr/compile';
 import { math } from '../core/math';
 import { analyzeFormula } from '../core/analysis';
 import { findFormulas } from '../core/detect';
-import { checkText, type CheckOptions } from '../core/check';
+import { checkText, createChecker, type CheckOptions } from '../core/check';
 import { LIMITS } from '../core/limits';
 import { coreLanguage } from './languages';
 import { grid, safeEval } from '../core/plot/sample';
@@ -147,13 +147,33 @@ export function findFormulasIn(text: string, opts: { languageId?: Language; file
   return findFormulas(text, opts);
 }
 
-export function checkTextIn(text: string, opts: { languageId?: Language; fileName?: string; maxFormulasPerFile?: number }): Finding[] {
+export interface CheckInOptions { languageId?: Language; fileName?: string; maxFormulasPerFile?: number }
+
+/** The core's check options from the extension's: settings may lower the core's limit, never raise it. */
+function checkOptions(opts: CheckInOptions): CheckOptions {
   const o: CheckOptions = {};
   if (opts.languageId) o.languageId = opts.languageId;
   if (opts.fileName) o.fileName = opts.fileName;
-  // Settings may lower the core's limit, never raise it.
   if (opts.maxFormulasPerFile !== undefined) o.limits = { maxFormulasPerFile: Math.min(opts.maxFormulasPerFile, LIMITS.maxFormulasPerFile) as typeof LIMITS.maxFormulasPerFile };
-  return checkText(text, o);
+  return o;
+}
+
+export function checkTextIn(text: string, opts: CheckInOptions): Finding[] {
+  return checkText(text, checkOptions(opts));
+}
+
+export interface DocumentChecker {
+  check(text: string, opts: CheckInOptions): Finding[];
+}
+
+/**
+ * A checker for one document that keeps what it learnt between checks (core/check `createChecker`:
+ * formulas, comparisons, detection results per function and comment block, the last lexing), so a
+ * re-check after an edit redoes only what the edit touched and returns what a full check would.
+ */
+export function documentChecker(): DocumentChecker {
+  const checker = createChecker();
+  return { check: (text, opts) => checker.check(text, checkOptions(opts)) };
 }
 
 /**

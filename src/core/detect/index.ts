@@ -38,8 +38,8 @@ type PlacelessFormula = Omit<CodeFormula, 'fn' | 'span' | 'line' | 'endLine'>;
  * Bounded (LRU); a miss only costs the time of reading the function or block again.
  */
 export class DetectMemo {
-  readonly functions = new Lru<{ f?: PlacelessFormula }>(2000);
-  readonly comments = new Lru<CommentScan>(2000);
+  readonly functions = new Lru<{ f?: PlacelessFormula }>(1000);
+  readonly comments = new Lru<CommentScan>(1000);
   /** The last text lexed, and how: the next scan lexes only what changed (lexer.ts `relex`). */
   last?: { text: string; family: LanguageInfo['family']; language: LanguageInfo['language']; fixedForm: LanguageInfo['fixedForm']; maxLineLength: number; lexed: Lexed };
   clear(): void {
