@@ -104,10 +104,21 @@ export class DiagnosticsManager implements vscode.Disposable {
     if (!s.formulas) {
       const text = doc.getText();
       s.formulas = text.length > this.config().maxFileBytes ? []
-        : engine.findFormulasIn(text, { languageId: coreLanguage(doc.languageId) ?? 'plain', fileName: doc.fileName })
+        : this.checkerFor(doc).findFormulas(text, { languageId: coreLanguage(doc.languageId) ?? 'plain', fileName: doc.fileName })
           .slice(0, this.config().maxFormulasPerFile);
     }
     return s.formulas;
+  }
+
+  /** The document's own checker (created on first use, dropped by `forget`). */
+  private checkerFor(doc: vscode.TextDocument): engine.DocumentChecker {
+    const key = doc.uri.toString();
+    let checker = this.checkers.get(key);
+    if (!checker) {
+      checker = engine.documentChecker();
+      this.checkers.set(key, checker);
+    }
+    return checker;
   }
 
   findingsFor(uri: vscode.Uri): Finding[] {
@@ -124,13 +135,7 @@ export class DiagnosticsManager implements vscode.Disposable {
         this.collection.delete(doc.uri);
         return 0;
       }
-      const key = doc.uri.toString();
-      let checker = this.checkers.get(key);
-      if (!checker) {
-        checker = engine.documentChecker();
-        this.checkers.set(key, checker);
-      }
-      const findings = checker.check(text, { languageId: coreLanguage(doc.languageId) ?? 'plain', fileName: doc.fileName, maxFormulasPerFile: config.maxFormulasPerFile });
+      const findings = this.checkerFor(doc).check(text, { languageId: coreLanguage(doc.languageId) ?? 'plain', fileName: doc.fileName, maxFormulasPerFile: config.maxFormulasPerFile });
       const s = this.docState(doc);
       s.findings = findings;
       const diags = this.toDiagnostics(findings, (off) => doc.positionAt(off), doc.uri, config);

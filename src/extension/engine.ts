@@ -164,6 +164,8 @@ export function checkTextIn(text: string, opts: CheckInOptions): Finding[] {
 
 export interface DocumentChecker {
   check(text: string, opts: CheckInOptions): Finding[];
+  /** The document's formulas (as findFormulasIn), through the same memory as its checks. */
+  findFormulas(text: string, opts: { languageId?: Language; fileName?: string }): FoundFormula[];
 }
 
 /**
@@ -173,7 +175,10 @@ export interface DocumentChecker {
  */
 export function documentChecker(): DocumentChecker {
   const checker = createChecker();
-  return { check: (text, opts) => checker.check(text, checkOptions(opts)) };
+  return {
+    check: (text, opts) => checker.check(text, checkOptions(opts)),
+    findFormulas: (text, opts) => checker.findFormulas(text, opts),
+  };
 }
 
 /**

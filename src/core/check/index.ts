@@ -9,7 +9,7 @@
  */
 import type { MathNode } from 'mathjs';
 import { LIMITS, type Limits } from '../limits';
-import { FLOAT_TYPES, type Finding, type Formula, type Language, type ScalarFn, type Span } from '../types';
+import { FLOAT_TYPES, type Finding, type Formula, type FoundFormula, type Language, type ScalarFn, type Span } from '../types';
 import { parseFormula } from '../expr/parse';
 import { differentiate } from '../expr/differentiate';
 import { lightClean } from '../expr/simplify';
@@ -17,7 +17,7 @@ import { compileScalar } from '../expr/compile';
 import { analyzePairing, stableRewrites } from '../analysis/index';
 import { emitCode, emitLanguageFor } from '../emit';
 import { parseNumber } from '../detect/code';
-import { analyzeSource, DetectMemo, derivativeBase, hasSymbol, replaceSymbol, stripKernelSuffix, type CodeFormula, type SourceModel } from '../detect/index';
+import { analyzeSource, DetectMemo, findFormulas, derivativeBase, type DetectOptions, hasSymbol, replaceSymbol, stripKernelSuffix, type CodeFormula, type SourceModel } from '../detect/index';
 import type { CommentFormula } from '../detect/comments';
 import type { Token } from '../detect/lexer';
 import { BATCH_SYMBOL, matchClose, splitArgs } from '../detect/stmt';
@@ -92,6 +92,8 @@ export function clearCheckCaches(): void {
 export interface Checker {
   check(text: string, opts?: Omit<CheckOptions, 'cache'>): Finding[];
   checkSource(text: string, opts?: Omit<CheckOptions, 'cache'>): CheckResult;
+  /** `findFormulas` (detect) through this checker's detection memo: the same document's formulas, cheaply after an edit. */
+  findFormulas(text: string, opts?: Omit<DetectOptions, 'memo'>): FoundFormula[];
   clear(): void;
 }
 
@@ -100,6 +102,7 @@ export function createChecker(): Checker {
   return {
     check: (text, opts = {}) => checkSource(text, { ...opts, cache }).findings,
     checkSource: (text, opts = {}) => checkSource(text, { ...opts, cache }),
+    findFormulas: (text, opts = {}) => findFormulas(text, { ...opts, memo: cache.detect }),
     clear: () => cache.clear(),
   };
 }

@@ -15,7 +15,7 @@ import { lex, relex, type Lexed, type Token } from './lexer';
 import { scanComments, type CommentFormula, type CommentScan } from './comments';
 import { parseNumber, readCode, type CodeModel, type FunctionDef } from './code';
 import { reduce, type RenderContext } from './stmt';
-import { keyOf, Lru } from '../cache';
+import { keyOf, Lru, paramsKey } from '../cache';
 import { LOSS_WORDS, OUTPUT_NAMES, UPSTREAM_NAMES } from './words';
 
 export { languageInfo } from './languages';
@@ -40,11 +40,14 @@ type PlacelessFormula = Omit<CodeFormula, 'fn' | 'span' | 'line' | 'endLine'>;
 export class DetectMemo {
   readonly functions = new Lru<{ f?: PlacelessFormula }>(1000);
   readonly comments = new Lru<CommentScan>(1000);
+  /** Whether the engine reads a candidate (`readable`), by text, notation, variable and bindings. */
+  readonly readable = new Lru<boolean>(1000);
   /** The last text lexed, and how: the next scan lexes only what changed (lexer.ts `relex`). */
   last?: { text: string; family: LanguageInfo['family']; language: LanguageInfo['language']; fixedForm: LanguageInfo['fixedForm']; maxLineLength: number; lexed: Lexed };
   clear(): void {
     this.functions.clear();
     this.comments.clear();
+    this.readable.clear();
     delete this.last;
   }
 }
@@ -430,14 +433,23 @@ function storedValue(toks: Token[], attr: string): string | undefined {
   return undefined;
 }
 
-/** Engine check of a candidate: does it read as a formula in `variable`? */
-export function readable(text: string, language: Language, variable: string | undefined, params: Record<string, number>): boolean {
+/**
+ * Engine check of a candidate: does it read as a formula in `variable`? With a memo the answer is
+ * kept, except a refusal caused by a time budget (not a property of the text).
+ */
+export function readable(text: string, language: Language, variable: string | undefined, params: Record<string, number>, memo?: DetectMemo): boolean {
+  const key = memo ? keyOf(text, language, variable, paramsKey(params)) : undefined;
+  const hit = key !== undefined ? memo!.readable.get(key) : undefined;
+  if (hit !== undefined) return hit;
+  let ok: boolean;
   try {
-    const f = parseFormula(text, { language, ...(variable ? { variable } : {}), params });
-    return f.node !== undefined;
-  } catch {
-    return false;
+    ok = parseFormula(text, { language, ...(variable ? { variable } : {}), params }).node !== undefined;
+  } catch (e) {
+    if (key !== undefined && /budget|time/i.test(e instanceof Error ? e.message : String(e))) return false;
+    ok = false;
   }
+  if (key !== undefined) memo!.readable.set(key, ok);
+  return ok;
 }
 
 /** Formulas in a source file, in order of position. */
@@ -458,7 +470,7 @@ export function scanText(text: string, opts: DetectOptions = {}): { formulas: Fo
   for (const c of m.commentFormulas) {
     if (enough(out.length)) break;
     const language: Language = c.text.includes('\\') ? 'latex' : 'plain';
-    if (!readable(c.text, language, c.variable, {})) continue;
+    if (!readable(c.text, language, c.variable, {}, opts.memo)) continue;
     const f: FoundFormula = { span: c.span, text: c.text, language, origin: 'comment', role: c.role };
     if (c.name) f.name = c.name;
     if (c.variable) f.variable = c.variable;
@@ -471,7 +483,7 @@ export function scanText(text: string, opts: DetectOptions = {}): { formulas: Fo
     if (enough(out.length - commentCount)) break;
     const params = { ...m.constants, ...c.params };
     for (const u of c.upstream) params[u] = 1;
-    if (!readable(c.text, m.info.language, c.variable, params)) continue;
+    if (!readable(c.text, m.info.language, c.variable, params, opts.memo)) continue;
     const f: FoundFormula = { span: c.span, text: c.text, language: m.info.language, origin: 'code', role: c.role, name: c.qualifiedName };
     if (c.variable) f.variable = c.variable;
     if (c.argument) f.argument = c.argument;

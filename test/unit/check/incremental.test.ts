@@ -9,6 +9,7 @@ import { uniformStream as rng } from '../../../fuzz/rng';
 import { checkSource, clearCheckCaches, createChecker, mayHaveStableRewrite, type CheckResult } from '../../../src/core/check/index';
 import { keyOf, Lru, paramsKey } from '../../../src/core/cache';
 import { parseFormula } from '../../../src/core/expr/parse';
+import { findFormulas } from '../../../src/core/detect/index';
 import { stableRewrites } from '../../../src/core/analysis/index';
 import { CATALOGUE } from '../../../src/core/expr';
 import { FLOAT_TYPES } from '../../../src/core/types';
@@ -73,6 +74,20 @@ describe('check: incremental checker', () => {
     }
     // the series must exercise findings, not only clean texts
     assert.ok(withFindings > files.length, `${withFindings} of ${compared} checks had findings`);
+  });
+
+  it("the checker's findFormulas equals a fresh findFormulas after edits, interleaved with checks of the same text", function () {
+    this.timeout(300_000);
+    const r = rng(31_2026);
+    for (const file of files) {
+      const checker = createChecker();
+      let text = fs.readFileSync(path.join(ROOT, file), 'utf8');
+      for (let step = 0; step < 4; step++) {
+        if (step % 2 === 1) checker.check(text, { fileName: file });
+        assert.deepEqual(checker.findFormulas(text, { fileName: file }), findFormulas(text, { fileName: file }), `${file}, after ${step} edit(s)`);
+        text = randomEdit(text, r);
+      }
+    }
   });
 
   it('gives each document its own memory: checking another text in between changes nothing', () => {
