@@ -15,6 +15,7 @@ import {
   ROOT, ensureCodeServer, ensureDebianPackages, makeProfile, startCodeServer, killGroupNow, log,
 } from './lib/code-server.mjs';
 import { launchChromium, enableTestPayload, runSuiteInPage } from './lib/browser.mjs';
+import { suiteRun } from './lib/suite-run.mjs';
 
 const { values: opts } = parseArgs({
   options: {
@@ -34,50 +35,18 @@ const testsPath = path.resolve(opts.tests ?? path.join(extensionPath, 'out', 'te
 const workspace = path.resolve(opts.workspace);
 const hardTimeoutMs = Number(opts.timeout) * 1000;
 
-let server;
-let context;
-let launching; // a Chromium launch in progress, so an interrupt does not orphan it
-let profile;
-let finished = false;
-
-async function cleanup() {
-  if (launching && !context) {
-    context = await Promise.race([launching.catch(() => undefined), new Promise((r) => setTimeout(r, 15_000).unref())]);
-  }
-  if (context) {
-    // A wedged browser must not hold up the exit: give it 10 s, then playwright's exit handler kills it.
-    await Promise.race([context.close().catch(() => {}), new Promise((r) => setTimeout(r, 10_000).unref())]);
-    context = undefined;
-  }
-  if (server) { await server.stop(); server = undefined; }
-  if (profile) {
-    if (opts['keep-profile']) log(`profile kept at ${profile.dir}`);
-    profile.dispose();
-    profile = undefined;
-  }
-}
-
-async function finish(code, message) {
-  if (finished) return;
-  finished = true;
-  if (message) console.error(`[editor] ${message}`);
-  await cleanup();
-  process.exit(code);
-}
-
-// Every exit path takes the editor's process group down with it.
-process.on('exit', () => {
-  if (server) killGroupNow(server.child);
-  if (profile) profile.dispose();
+const { run, finish, report, fail } = suiteRun({
+  tag: 'editor',
+  hardTimeoutMs,
+  stopServer: (server) => server.stop(),
+  // Every exit path takes the editor's process group down with it.
+  onProcessExit: (r) => { if (r.server) killGroupNow(r.server.child); },
+  timeoutDetail: (r) => {
+    const tail = r.server ? r.server.output().split('\n').slice(-30).join('\n') : '';
+    return tail ? `\nlast code-server output:\n${tail}` : '';
+  },
+  keepProfile: opts['keep-profile'],
 });
-for (const sig of ['SIGINT', 'SIGTERM', 'SIGHUP']) {
-  process.on(sig, () => { finish(130, `interrupted (${sig}); editor stopped`); });
-}
-const hardTimer = setTimeout(() => {
-  const tail = server ? server.output().split('\n').slice(-30).join('\n') : '';
-  finish(124, `FAILED: hard timeout of ${hardTimeoutMs / 1000} s reached; editor killed.${tail ? `\nlast code-server output:\n${tail}` : ''}`);
-}, hardTimeoutMs);
-hardTimer.unref();
 
 async function main() {
   for (const [what, p] of [['extension folder', path.join(extensionPath, 'package.json')], ['workspace', workspace]]) {
@@ -94,10 +63,12 @@ async function main() {
   ensureDebianPackages();
   const entry = ensureCodeServer();
   const t0 = Date.now();
-  profile = makeProfile('slopewise-editor-test-', { keep: opts['keep-profile'] });
+  const profile = makeProfile('slopewise-editor-test-', { keep: opts['keep-profile'] });
+  run.profile = profile;
 
   if (opts.grep) process.env.SLOPEWISE_TEST_GREP = opts.grep; // the extension host inherits it
-  server = await startCodeServer({ entry, profile, workspace, verbose: opts.verbose });
+  const server = await startCodeServer({ entry, profile, workspace, verbose: opts.verbose });
+  run.server = server;
   log(`code-server ${server.url} (workspace ${path.relative(ROOT, workspace) || workspace})`);
 
   // The workbench resolves payload URIs against its remote authority; read it from the served page.
@@ -111,9 +82,10 @@ async function main() {
   ];
   const url = `${server.url}?folder=${encodeURIComponent(workspace)}&payload=${encodeURIComponent(JSON.stringify(payload))}`;
 
-  launching = launchChromium(profile, { headless: !opts.headed });
-  context = await launching;
-  if (finished) return undefined;
+  run.launching = launchChromium(profile, { headless: !opts.headed });
+  const context = await run.launching;
+  run.context = context;
+  if (run.finished) return undefined;
   await enableTestPayload(context);
   const serverDied = new Promise((_r, reject) => {
     server.child.once('exit', (code, signal) => reject(new Error(`code-server exited during the run (code ${code}, signal ${signal})`)));
@@ -128,15 +100,7 @@ async function main() {
       'Creating a socket (', 'Updating additional builtin extensions cache', '[Service Worker]', 'ChatSessionStore:',
       'Creation of workbench contribution'],
   });
-  const seconds = ((Date.now() - t0) / 1000).toFixed(1);
-  const counts = summary.passing !== undefined
-    ? ` (${summary.passing} passing, ${summary.failing ?? 0} failing${summary.pending ? `, ${summary.pending} pending` : ''})` : '';
-  // Machine-readable line for scripts/test-all.mjs.
-  console.log(`[editor] result: exit ${code}${counts} in ${seconds} s`);
-  if (summary.passing === undefined && code === 0) {
-    return finish(1, 'FAILED: the suite reported success but mocha printed no summary: no tests ran?');
-  }
-  return finish(code === 0 ? 0 : 1, code === 0 ? undefined : 'FAILED: in-host tests failed');
+  return report(code, summary, t0, 'FAILED: in-host tests failed');
 }
 
-main().catch((err) => finish(err?.message?.startsWith('no result') ? 124 : 2, `FAILED: ${err?.stack ?? err}`));
+main().catch(fail);

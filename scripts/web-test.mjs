@@ -13,6 +13,7 @@ import { parseArgs } from 'node:util';
 import { ROOT, ensureDebianPackages, freePort, makeProfile } from './lib/code-server.mjs';
 import { ensureWebRunner, WEB_COMMIT, WEB_DATA_DIR } from './lib/code-web.mjs';
 import { launchChromium, runSuiteInPage } from './lib/browser.mjs';
+import { suiteRun } from './lib/suite-run.mjs';
 
 const { values: opts } = parseArgs({
   options: {
@@ -29,33 +30,7 @@ const testsPath = path.resolve(opts.tests ?? path.join(extensionPath, 'out', 'te
 const workspace = path.resolve(opts.workspace);
 const hardTimeoutMs = Number(opts.timeout) * 1000;
 
-let server;
-let context;
-let launching;
-let profile;
-let finished = false;
-
-async function cleanup() {
-  if (launching && !context) context = await Promise.race([launching.catch(() => undefined), new Promise((r) => setTimeout(r, 15_000).unref())]);
-  if (context) {
-    await Promise.race([context.close().catch(() => {}), new Promise((r) => setTimeout(r, 10_000).unref())]);
-    context = undefined;
-  }
-  if (server) { server.dispose(); server = undefined; }
-  if (profile) { profile.dispose(); profile = undefined; }
-}
-
-async function finish(code, message) {
-  if (finished) return;
-  finished = true;
-  if (message) console.error(`[web] ${message}`);
-  await cleanup();
-  process.exit(code);
-}
-
-process.on('exit', () => { if (profile) profile.dispose(); });
-for (const sig of ['SIGINT', 'SIGTERM', 'SIGHUP']) process.on(sig, () => { finish(130, `interrupted (${sig})`); });
-setTimeout(() => finish(124, `FAILED: hard timeout of ${hardTimeoutMs / 1000} s reached`), hardTimeoutMs).unref();
+const { run, finish, report, fail } = suiteRun({ tag: 'web', hardTimeoutMs, stopServer: (server) => server.dispose() });
 
 async function main() {
   const manifestPath = path.join(extensionPath, 'package.json');
@@ -70,11 +45,12 @@ async function main() {
   ensureDebianPackages(['chromium']);
   const testWeb = ensureWebRunner();
   const t0 = Date.now();
-  profile = makeProfile('slopewise-web-test-');
+  const profile = makeProfile('slopewise-web-test-');
+  run.profile = profile;
   const port = await freePort();
   // Serve only (browserType 'none'): its own browser launch cannot use Debian's Chromium and opens a
   // private window, where webviews cannot register their service worker.
-  server = await testWeb.open({
+  run.server = await testWeb.open({
     browserType: 'none',
     quality: 'stable',
     commit: WEB_COMMIT,
@@ -89,9 +65,10 @@ async function main() {
   });
   const url = `http://localhost:${port}/`;
   console.log(`[web] web editor ${url} (workspace ${path.relative(ROOT, workspace) || workspace})`);
-  launching = launchChromium(profile, { headless: !opts.headed });
-  context = await launching;
-  if (finished) return undefined;
+  run.launching = launchChromium(profile, { headless: !opts.headed });
+  const context = await run.launching;
+  run.context = context;
+  if (run.finished) return undefined;
   const { code, summary } = await runSuiteInPage(context, url, {
     timeoutMs: Math.max(5_000, hardTimeoutMs - (Date.now() - t0) - 5_000),
     // The workbench's start-up chatter about the mounted folder and absent services; --verbose shows it.
@@ -101,12 +78,7 @@ async function main() {
       '[AgentHost:', '[AccountPolicyGate]', 'Loading development extension at', 'vscode-test-web-support fs provider',
       "Request to 'http://127.0.0.1:", 'package.nls.json'],
   });
-  const seconds = ((Date.now() - t0) / 1000).toFixed(1);
-  const counts = summary.passing !== undefined
-    ? ` (${summary.passing} passing, ${summary.failing ?? 0} failing${summary.pending ? `, ${summary.pending} pending` : ''})` : '';
-  console.log(`[web] result: exit ${code}${counts} in ${seconds} s`);
-  if (summary.passing === undefined && code === 0) return finish(1, 'FAILED: success reported but mocha printed no summary: no tests ran?');
-  return finish(code === 0 ? 0 : 1, code === 0 ? undefined : 'FAILED: in-host tests failed in the browser extension host');
+  return report(code, summary, t0, 'FAILED: in-host tests failed in the browser extension host');
 }
 
-main().catch((err) => finish(err?.message?.startsWith('no result') ? 124 : 2, `FAILED: ${err?.stack ?? err}`));
+main().catch(fail);
