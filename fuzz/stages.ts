@@ -335,15 +335,21 @@ function checkInspect(res: InspectResult, input: FuzzInput): string | undefined 
   return undefined;
 }
 
+
+/** Inputs of a stage: a grammar formula (depth 1…maxDepth) with probability pGrammar, else a mutated one. */
+function grammarOrMutated(stage: string, pGrammar: number, maxDepth: number): (seed: number, i: number) => FuzzInput {
+  return (seed, i) => {
+    const r = Rng.for(seed, stage, i);
+    return r.bool(pGrammar) ? grammarInput(r, r.int(1, maxDepth)) : mutatedFormula(r);
+  };
+}
+
 export const STAGES: readonly Stage[] = [
   {
     name: 'notation',
     budgetMs: 250,
     weight: 0.42,
-    generate: (seed, i) => {
-      const r = Rng.for(seed, 'notation', i);
-      return r.bool(0.7) ? grammarInput(r, r.int(1, 5)) : mutatedFormula(r);
-    },
+    generate: grammarOrMutated('notation', 0.7, 5),
     run: (input) => guard(input, () => {
       const o = parseOpts(input);
       const res = toCanonicalText(input.text, o.language);
@@ -382,10 +388,7 @@ export const STAGES: readonly Stage[] = [
     // Two budgeted simplifications plus differentiation, compilation and code emission.
     budgetMs: LIMITS.formulaBudgetMs,
     weight: 0.01,
-    generate: (seed, i) => {
-      const r = Rng.for(seed, 'derive', i);
-      return r.bool(0.8) ? grammarInput(r, r.int(1, 5)) : mutatedFormula(r);
-    },
+    generate: grammarOrMutated('derive', 0.8, 5),
     run: (input) => guard(input, () => {
       const f = parseFormula(input.text, parseOpts(input));
       const d = derive(f);
@@ -411,10 +414,7 @@ export const STAGES: readonly Stage[] = [
     name: 'inspect',
     budgetMs: LIMITS.formulaBudgetMs,
     weight: 0.002,
-    generate: (seed, i) => {
-      const r = Rng.for(seed, 'inspect', i);
-      return r.bool(0.85) ? grammarInput(r, r.int(1, 4)) : mutatedFormula(r);
-    },
+    generate: grammarOrMutated('inspect', 0.85, 4),
     run: (input) => guard(input, () => {
       const o = parseOpts(input);
       const opts: Parameters<typeof inspect>[1] = {};
