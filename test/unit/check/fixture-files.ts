@@ -17,3 +17,10 @@ export function fixtureFiles(): string[] {
   walk(FIXTURES_ROOT);
   return out;
 }
+
+/** A fixture's text followed by `edits` successive edits of it (`edit` draws from the caller's seeded stream). */
+export function editSeries(file: string, edits: number, edit: (text: string) => string): string[] {
+  const out = [fs.readFileSync(path.join(FIXTURES_ROOT, file), 'utf8')];
+  for (let k = 0; k < edits; k++) out.push(edit(out[out.length - 1]!));
+  return out;
+}

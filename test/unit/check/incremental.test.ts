@@ -4,7 +4,7 @@
 import * as assert from 'node:assert/strict';
 import * as fs from 'node:fs';
 import * as path from 'node:path';
-import { FIXTURES_ROOT, fixtureFiles } from './fixture-files';
+import { FIXTURES_ROOT, editSeries, fixtureFiles } from './fixture-files';
 import { uniformStream as rng } from '../../../fuzz/rng';
 import { checkSource, clearCheckCaches, createChecker, mayHaveStableRewrite, type CheckResult } from '../../../src/core/check/index';
 import { keyOf, Lru, paramsKey } from '../../../src/core/cache';
@@ -61,16 +61,14 @@ describe('check: incremental checker', () => {
     for (const file of files) {
       const opts = { fileName: file };
       const checker = createChecker();
-      let text = fs.readFileSync(path.join(ROOT, file), 'utf8');
-      for (let step = 0; step < 5; step++) {
+      editSeries(file, 4, (t) => randomEdit(t, r)).forEach((text, step) => {
         const inc = checker.checkSource(text, opts);
         clearCheckCaches();
         const fresh = checkSource(text, opts);
         assert.deepEqual(comparable(inc), comparable(fresh), `${file}, after ${step} edit(s)`);
         compared++;
         if (fresh.findings.length > 0) withFindings++;
-        text = randomEdit(text, r);
-      }
+      });
     }
     // the series must exercise findings, not only clean texts
     assert.ok(withFindings > files.length, `${withFindings} of ${compared} checks had findings`);
@@ -81,12 +79,10 @@ describe('check: incremental checker', () => {
     const r = rng(31_2026);
     for (const file of files) {
       const checker = createChecker();
-      let text = fs.readFileSync(path.join(ROOT, file), 'utf8');
-      for (let step = 0; step < 4; step++) {
+      editSeries(file, 3, (t) => randomEdit(t, r)).forEach((text, step) => {
         if (step % 2 === 1) checker.check(text, { fileName: file });
         assert.deepEqual(checker.findFormulas(text, { fileName: file }), findFormulas(text, { fileName: file }), `${file}, after ${step} edit(s)`);
-        text = randomEdit(text, r);
-      }
+      });
     }
   });
 

@@ -3,9 +3,7 @@
 // scratch gives, after any edit. The edits are character-level and favour what breaks a lexer's
 // state: quotes, triple quotes, comment openers and closers, newlines, continuations.
 import * as assert from 'node:assert/strict';
-import * as fs from 'node:fs';
-import * as path from 'node:path';
-import { FIXTURES_ROOT, fixtureFiles } from '../check/fixture-files';
+import { editSeries, fixtureFiles } from '../check/fixture-files';
 import { uniformStream as rng } from '../../../fuzz/rng';
 import { lex, relex, type Lexed } from '../../../src/core/detect/lexer';
 import { analyzeSource, DetectMemo, languageInfo, type SourceModel } from '../../../src/core/detect/index';
@@ -42,16 +40,14 @@ describe('detect: incremental lexing and the detection memo', () => {
     let restartsInside = 0;
     for (const file of files) {
       const info = languageInfo(undefined, file);
-      let prevText = fs.readFileSync(path.join(FIXTURES_ROOT, file), 'utf8');
-      let prev = lex(prevText, info, 4000);
-      for (let k = 0; k < 20; k++) {
-        const text = randomEdit(prevText, r);
-        const got = relex(prevText, prev, text, info, 4000);
-        assert.deepEqual(plainLexed(got), plainLexed(lex(text, info, 4000)), `${file}, edit ${k}`);
+      const versions = editSeries(file, 20, (t) => randomEdit(t, r));
+      let prev = lex(versions[0]!, info, 4000);
+      for (let k = 1; k < versions.length; k++) {
+        const got = relex(versions[k - 1]!, prev, versions[k]!, info, 4000);
+        assert.deepEqual(plainLexed(got), plainLexed(lex(versions[k]!, info, 4000)), `${file}, edit ${k}`);
         if (got.tokens.length > 0 && got.tokens[0] === prev.tokens[0]) restartsInside++;
         edits++;
         prev = got;
-        prevText = text;
       }
     }
     // the prefix before the edit must really be reused (same token objects), not everything re-lexed
@@ -63,12 +59,10 @@ describe('detect: incremental lexing and the detection memo', () => {
     const r = rng(11_2026);
     for (const file of files) {
       const memo = new DetectMemo();
-      let text = fs.readFileSync(path.join(FIXTURES_ROOT, file), 'utf8');
-      for (let k = 0; k < 8; k++) {
-        const opts = { fileName: file };
+      const opts = { fileName: file };
+      editSeries(file, 7, (t) => randomEdit(t, r)).forEach((text, k) => {
         assert.deepEqual(plainModel(analyzeSource(text, { ...opts, memo })), plainModel(analyzeSource(text, opts)), `${file}, edit ${k}`);
-        text = randomEdit(text, r);
-      }
+      });
     }
   });
 
