@@ -1,0 +1,201 @@
+// The extension host never renders LaTeX or HTML from mathjs trees: `latexForm` (mathjs `toTex`) feeds
+// only inspect's `latex` field, which the CLI prints; the hover and diagnostics use the unicode display
+// forms. This esbuild plugin, used for the two extension-host bundles only (not the CLI, not the tests),
+// therefore trims mathjs's LaTeX and HTML output at build time:
+//   - expression/node/*.js: the `_toTex`/`_toHTML` methods of every node class (and FunctionNode's
+//     `toTex` override) are removed, and the `toTex`/`_toTex`/`toHTML`/`_toHTML` methods of the base
+//     class `Node` throw a clear error instead. Every node class inherits from `Node`, so a call of any
+//     of them anywhere in the host throws that error. The LaTeX tables (utils/latex.js, escape-latex)
+//     are then unreferenced and leave the bundle.
+//   - function/algebra/derivative.js: the `derivative.toTex` hook and its `_derivTex` typed-function.
+// The source is parsed with acorn and cut at node boundaries, never patched by pattern.
+//
+// It fails the build, loudly, when
+//   - a mathjs file it trims lacks a method or statement it expects (a mathjs upgrade must not
+//     silently stop trimming),
+//   - it trimmed nothing at all, or mathjs's LaTeX tables still end up in the bundle,
+//   - host code of ours uses LaTeX or HTML output (latexForm, toTex, toHTML): then drop this plugin.
+import fs from 'node:fs';
+import path from 'node:path';
+import * as acorn from 'acorn';
+
+const MATHJS_LIB = String.raw`[\\/]mathjs[\\/]lib[\\/](?:esm|cjs)[\\/]`;
+const NODE_FILE = new RegExp(`${MATHJS_LIB}expression[\\\\/]node[\\\\/](\\w*Node)\\.js$`);
+const DERIVATIVE_FILE = new RegExp(`${MATHJS_LIB}function[\\\\/]algebra[\\\\/]derivative\\.js$`);
+const LATEX_TABLES = new RegExp(`${MATHJS_LIB}utils[\\\\/]latex\\.js$|[\\\\/]escape-latex[\\\\/]`);
+
+const ABSENT = (what) => `{ throw new Error(${JSON.stringify(`mathjs ${what} is not part of the Slopewise extension-host bundle (scripts/lib/host-latex.mjs): LaTeX and HTML output are CLI features`)}); }`;
+/** Node.js: bodies replaced. */
+const BASE_BODIES = {
+  toTex: ABSENT('toTex (LaTeX output)'),
+  _toTex: '{ return this.toTex(); }',
+  toHTML: ABSENT('toHTML (HTML output)'),
+  _toHTML: '{ return this.toHTML(); }',
+};
+/** Every other node class: methods removed (they fall through to Node's). */
+const SUBCLASS_REMOVED = ['_toTex', '_toHTML'];
+const SUBCLASS_OPTIONAL = ['toTex', 'toHTML'];
+
+/** Our modules that may mention LaTeX output in the host graph: where it is defined or re-exported. */
+const LATEX_DEFINERS = new Set(['src/core/expr/display.ts', 'src/core/expr/index.ts']);
+const USES_LATEX_OR_HTML = /\blatexForm\b|\.(?:toTex|toHTML)\s*\(/;
+
+function walk(node, visit) {
+  if (!node || typeof node.type !== 'string') return;
+  if (visit(node) === false) return;
+  for (const key of Object.keys(node)) {
+    const v = node[key];
+    if (Array.isArray(v)) for (const c of v) walk(c, visit);
+    else if (v && typeof v.type === 'string') walk(v, visit);
+  }
+}
+
+function parse(src, file) {
+  return acorn.parse(src, { ecmaVersion: 'latest', sourceType: /[\\/]cjs[\\/]/.test(file) ? 'script' : 'module' });
+}
+
+/** Applies [start, end, replacement] cuts, which must not overlap. */
+function splice(src, cuts) {
+  let out = src;
+  for (const [s, e, text] of [...cuts].sort((a, b) => b[0] - a[0])) out = out.slice(0, s) + text + out.slice(e);
+  return out;
+}
+
+const methodName = (n) => n.type === 'MethodDefinition' && !n.computed && n.key.type === 'Identifier' ? n.key.name : null;
+
+/** Trims one expression/node/*.js file; returns its new text, or throws saying what it missed. */
+export function trimNodeFile(src, file, className) {
+  const cuts = [];
+  const found = new Map();
+  walk(parse(src, file), (n) => {
+    if (n.type !== 'ClassDeclaration' && n.type !== 'ClassExpression') return undefined;
+    if (n.id?.name !== className) return undefined;
+    for (const m of n.body.body) {
+      const name = methodName(m);
+      if (!name || m.static) continue;
+      if (className === 'Node' && Object.hasOwn(BASE_BODIES, name)) {
+        cuts.push([m.value.body.start, m.value.body.end, BASE_BODIES[name]]);
+        found.set(name, (found.get(name) ?? 0) + 1);
+      } else if (className !== 'Node' && (SUBCLASS_REMOVED.includes(name) || SUBCLASS_OPTIONAL.includes(name))) {
+        cuts.push([m.start, m.end, '']);
+        found.set(name, (found.get(name) ?? 0) + 1);
+      }
+    }
+    return false;
+  });
+  const expected = className === 'Node' ? Object.keys(BASE_BODIES) : SUBCLASS_REMOVED;
+  const missing = expected.filter((name) => found.get(name) !== 1);
+  if (missing.length) {
+    throw new Error(`expected one method ${missing.join(', ')} in class ${className} of ${file}, found ` +
+      `${missing.map((m) => found.get(m) ?? 0).join(', ')}: mathjs changed; update scripts/lib/host-latex.mjs`);
+  }
+  const text = dropUnusedLocalFunctions(splice(src, cuts), file);
+  return { text: text.text, trimmed: cuts.length + text.dropped };
+}
+
+/**
+ * Removes function declarations nested in a function (mathjs's factory bodies) whose name no longer
+ * occurs anywhere else in the file, repeatedly: helpers only the trimmed methods called, such as
+ * FunctionNode's `expandTemplate`. esbuild keeps unused nested declarations. Conservative: any other
+ * identifier of the same name, in any scope, keeps the declaration.
+ */
+function dropUnusedLocalFunctions(src, file) {
+  let text = src;
+  let dropped = 0;
+  for (;;) {
+    const uses = new Map();
+    const nested = [];
+    walk(parse(text, file), (n) => {
+      if (n.type === 'Identifier') uses.set(n.name, (uses.get(n.name) ?? 0) + 1);
+      if (n.type === 'FunctionDeclaration' || n.type === 'FunctionExpression' || n.type === 'ArrowFunctionExpression') {
+        const body = n.body.type === 'BlockStatement' ? n.body.body : [];
+        for (const s of body) if (s.type === 'FunctionDeclaration' && s.id) nested.push(s);
+      }
+      return undefined;
+    });
+    const unused = nested.filter((f) => uses.get(f.id.name) === 1);
+    if (!unused.length) return { text, dropped };
+    text = splice(text, unused.map((f) => [f.start, f.end, '']));
+    dropped += unused.length;
+  }
+}
+
+/** Removes `derivative.toTex = …` and the `_derivTex` typed-function it calls. */
+export function trimDerivativeFile(src, file) {
+  const cuts = [];
+  let hook = 0;
+  let tex = 0;
+  walk(parse(src, file), (n) => {
+    if (n.type === 'ExpressionStatement' && n.expression.type === 'AssignmentExpression') {
+      const l = n.expression.left;
+      if (l.type === 'MemberExpression' && !l.computed && l.object.type === 'Identifier' && l.object.name === 'derivative' &&
+        l.property.name === 'toTex') {
+        cuts.push([n.start, n.end, '']);
+        hook++;
+        return false;
+      }
+    }
+    if (n.type === 'VariableDeclaration' && n.declarations.length === 1 && n.declarations[0].id.name === '_derivTex') {
+      cuts.push([n.start, n.end, '']);
+      tex++;
+      return false;
+    }
+    return undefined;
+  });
+  if (hook !== 1 || tex !== 1) {
+    throw new Error(`expected one \`derivative.toTex = …\` and one \`var _derivTex\` in ${file}, found ${hook} and ${tex}: ` +
+      'mathjs changed; update scripts/lib/host-latex.mjs');
+  }
+  return { text: splice(src, cuts), trimmed: cuts.length };
+}
+
+/** The plugin. `root` is the build's absWorkingDir (metafile inputs are relative to it). */
+export function hostWithoutLatex(root) {
+  return {
+    name: 'host-without-latex',
+    setup(build) {
+      let trimmed = 0;
+      let nodeFiles = 0;
+      build.onStart(() => { trimmed = 0; nodeFiles = 0; });
+      const load = (trim) => async (args) => {
+        const src = await fs.promises.readFile(args.path, 'utf8');
+        try {
+          const r = trim(src, args.path);
+          trimmed += r.trimmed;
+          return { contents: r.text, loader: 'js' };
+        } catch (e) {
+          return { errors: [{ text: `host-without-latex: ${e.message}` }] };
+        }
+      };
+      build.onLoad({ filter: NODE_FILE }, load((src, file) => {
+        nodeFiles++;
+        return trimNodeFile(src, file, NODE_FILE.exec(file)[1]);
+      }));
+      build.onLoad({ filter: DERIVATIVE_FILE }, load(trimDerivativeFile));
+      build.onEnd((result) => {
+        if (!result.metafile || result.errors.length) return undefined;
+        const errors = [];
+        if (nodeFiles === 0 || trimmed === 0) {
+          errors.push({ text: 'host-without-latex: no mathjs expression node file was loaded or trimmed: the mathjs layout changed; update scripts/lib/host-latex.mjs' });
+        }
+        for (const out of Object.values(result.metafile.outputs)) {
+          for (const [input, info] of Object.entries(out.inputs)) {
+            if (LATEX_TABLES.test(`/${input}`) && info.bytesInOutput > 0) {
+              errors.push({ text: `host-without-latex: ${input} is still in the extension-host bundle (${info.bytesInOutput} bytes): something else uses mathjs's LaTeX tables; update scripts/lib/host-latex.mjs` });
+            }
+          }
+        }
+        for (const input of Object.keys(result.metafile.inputs)) {
+          if (!input.startsWith('src/') || LATEX_DEFINERS.has(input)) continue;
+          const text = fs.readFileSync(path.join(root, input), 'utf8');
+          if (USES_LATEX_OR_HTML.test(text)) {
+            errors.push({ text: `${input} uses LaTeX or HTML output (latexForm/toTex/toHTML), which the extension-host bundles leave out: remove the host-without-latex plugin (scripts/lib/host-latex.mjs)` });
+          }
+        }
+        // esbuild does not print errors returned from onEnd: say it here.
+        for (const e of errors) console.error(`✘ [ERROR] ${e.text}`);
+        return { errors };
+      });
+    },
+  };
+}

@@ -1,0 +1,94 @@
+// The extension-host bundles leave mathjs's LaTeX and HTML output out (scripts/lib/host-latex.mjs):
+// the built bundles carry none of it, a host build of the core's mathjs instance still parses, prints
+// and differentiates as the full mathjs package does but throws a clear error from toTex/toHTML, and
+// the trimming refuses a mathjs file that lacks the methods it expects.
+import * as assert from 'node:assert/strict';
+import * as fs from 'node:fs';
+import * as os from 'node:os';
+import * as path from 'node:path';
+import * as esbuild from 'esbuild';
+import * as mathjs from 'mathjs';
+
+const ROOT = path.resolve(__dirname, '..', '..');
+const HOST_BUNDLES = ['out/extension.js', 'out/web/extension.js'];
+
+interface HostLatexModule {
+  hostWithoutLatex(root: string): esbuild.Plugin;
+  trimNodeFile(src: string, file: string, className: string): { text: string; trimmed: number };
+  trimDerivativeFile(src: string, file: string): { text: string; trimmed: number };
+}
+const loadPlugin = async (): Promise<HostLatexModule> =>
+  (await import(path.join(ROOT, 'scripts', 'lib', 'host-latex.mjs'))) as HostLatexModule;
+
+interface MathLike {
+  parse(text: string): { toString(): string; toTex(): string; toHTML(): string };
+  derivative(expr: string, variable: string): { toString(): string };
+}
+
+/** Bundles src/core/math.ts the way the host targets do (or without the plugin) and loads it. */
+async function buildCoreMath(plugins: esbuild.Plugin[]): Promise<{ math: MathLike; inputs: string[] }> {
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'slopewise-host-bundle-'));
+  try {
+    const outfile = path.join(dir, 'math.cjs');
+    const r = await esbuild.build({
+      entryPoints: [path.join(ROOT, 'src', 'core', 'math.ts')], bundle: true, platform: 'node', format: 'cjs',
+      target: 'node20', outfile, metafile: true, logLevel: 'silent', absWorkingDir: ROOT, plugins,
+    });
+    const out = Object.values(r.metafile.outputs)[0]!;
+    const inputs = Object.entries(out.inputs).filter(([, i]) => i.bytesInOutput > 0).map(([f]) => f);
+    // eslint-disable-next-line @typescript-eslint/no-require-imports
+    return { math: (require(outfile) as { math: MathLike }).math, inputs };
+  } finally {
+    fs.rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+describe('extension-host bundles without LaTeX/HTML output', function () {
+  this.timeout(60_000);
+
+  for (const bundle of HOST_BUNDLES) {
+    it(`${bundle} carries no mathjs LaTeX or HTML rendering`, () => {
+      const file = path.join(ROOT, bundle);
+      assert.ok(fs.existsSync(file), `${file} is missing: run the build first`);
+      const text = fs.readFileSync(file, 'utf8');
+      assert.match(text, /mathjs toTex \(LaTeX output\) is not part of the Slopewise extension-host bundle/);
+      // Strings that only mathjs's LaTeX/HTML methods and tables contain (our LaTeX *reader*,
+      // src/core/expr/notation/latex.ts, has its own, such as \begin{cases}).
+      for (const marker of ['math-parenthesis', 'math-operator', '_derivTex', 'Template: ', '{\\text{otherwise}}']) {
+        assert.ok(!text.includes(marker), `${bundle} still contains ${JSON.stringify(marker)}`);
+      }
+    });
+  }
+
+  it('a host build of the core mathjs instance prints and differentiates like mathjs, and toTex/toHTML throw', async () => {
+    const { hostWithoutLatex } = await loadPlugin();
+    const { math, inputs } = await buildCoreMath([hostWithoutLatex(ROOT)]);
+    // The outside reference: the full mathjs package from npm, untrimmed.
+    for (const text of ['sin(x)^2 / (1 + exp(-x))', 'x > 0 ? x : 0.01 * x', 'f(x) = max(x, 0)', '[1, 2; 3, 4]']) {
+      assert.equal(math.parse(text).toString(), mathjs.parse(text).toString(), text);
+    }
+    assert.equal(math.derivative('x^2 * tanh(x)', 'x').toString(), mathjs.derivative('x^2 * tanh(x)', 'x').toString());
+    assert.throws(() => math.parse('x^2').toTex(), /toTex \(LaTeX output\) is not part of the Slopewise extension-host bundle/);
+    assert.throws(() => math.parse('f(x) = x > 0 ? x : 0').toTex(), /not part of the Slopewise extension-host bundle/);
+    assert.throws(() => math.parse('[a, b]').toHTML(), /toHTML \(HTML output\) is not part of the Slopewise extension-host bundle/);
+    assert.ok(!inputs.some((f) => /mathjs\/lib\/(esm|cjs)\/utils\/latex\.js$|escape-latex/.test(f)), inputs.join('\n'));
+  });
+
+  it('without the plugin the same build renders LaTeX as mathjs does (the test above can tell them apart)', async () => {
+    const { math } = await buildCoreMath([]);
+    assert.equal(math.parse('sqrt(x) / 2').toTex(), mathjs.parse('sqrt(x) / 2').toTex());
+  });
+
+  it('refuses a mathjs node file that lacks the methods it trims', async () => {
+    const { trimNodeFile, trimDerivativeFile } = await loadPlugin();
+    const renamed = 'export class SymbolNode { toString() { return "x"; } _toLatex() { return "x"; } _toHTML() { return "x"; } }';
+    assert.throws(() => trimNodeFile(renamed, 'SymbolNode.js', 'SymbolNode'), /expected one method _toTex in class SymbolNode/);
+    assert.throws(() => trimNodeFile('export class Node { toTex() {} _toTex() {} toHTML() {} }', 'Node.js', 'Node'),
+      /expected one method _toHTML in class Node/);
+    assert.throws(() => trimDerivativeFile('export const f = 1;', 'derivative.js'), /expected one `derivative.toTex = …`/);
+    const ok = trimNodeFile('export class SymbolNode { toString() { return "x"; } _toTex() { return "x"; } _toHTML() { return "x"; } }',
+      'SymbolNode.js', 'SymbolNode');
+    assert.equal(ok.trimmed, 2);
+    assert.ok(!ok.text.includes('_toTex') && ok.text.includes('toString'), ok.text);
+  });
+});
