@@ -1,7 +1,8 @@
-// The extension-host bundles leave mathjs's LaTeX and HTML output out (scripts/lib/host-latex.mjs):
-// the built bundles carry none of it, a host build of the core's mathjs instance still parses, prints
-// and differentiates as the full mathjs package does but throws a clear error from toTex/toHTML, and
-// the trimming refuses a mathjs file that lacks the methods it expects.
+// The extension-host bundles leave mathjs's LaTeX and HTML output out (scripts/lib/host-latex.mjs)
+// and carry mathjs's `identifier` type test in compact form (scripts/lib/mathjs-identifier.mjs): the
+// built bundles carry none of the LaTeX/HTML code, a host build of the core's mathjs instance still
+// parses, prints, differentiates and words type errors as the full mathjs package does but throws a
+// clear error from toTex/toHTML, and the trimming refuses a mathjs file that lacks what it expects.
 import * as assert from 'node:assert/strict';
 import * as fs from 'node:fs';
 import * as os from 'node:os';
@@ -11,6 +12,14 @@ import * as mathjs from 'mathjs';
 
 const ROOT = path.resolve(__dirname, '..', '..');
 const HOST_BUNDLES = ['out/extension.js', 'out/web/extension.js'];
+
+interface IdentifierModule {
+  mathjsCompactIdentifier: esbuild.Plugin;
+  COMPACT_IDENTIFIER: string;
+  identifierDifferences(expanded: RegExp, compact: RegExp, limit?: number): string[];
+}
+const loadIdentifier = async (): Promise<IdentifierModule> =>
+  (await import(path.join(ROOT, 'scripts', 'lib', 'mathjs-identifier.mjs'))) as IdentifierModule;
 
 interface HostLatexModule {
   hostWithoutLatex(root: string): esbuild.Plugin;
@@ -23,6 +32,17 @@ const loadPlugin = async (): Promise<HostLatexModule> =>
 interface MathLike {
   parse(text: string): { toString(): string; toTex(): string; toHTML(): string };
   derivative(expr: string, variable: string): { toString(): string };
+  simplifyCore(node: unknown, options?: unknown): unknown;
+}
+
+/** The message of the error `fn` throws. */
+function errorMessage(fn: () => unknown): string {
+  try {
+    fn();
+  } catch (e) {
+    return (e as Error).message;
+  }
+  throw new Error('expected an error');
 }
 
 /** Bundles src/core/math.ts the way the host targets do (or without the plugin) and loads it. */
@@ -43,7 +63,7 @@ async function buildCoreMath(plugins: esbuild.Plugin[]): Promise<{ math: MathLik
   }
 }
 
-describe('extension-host bundles without LaTeX/HTML output', function () {
+describe('extension-host bundles: mathjs trimmed at build time', function () {
   this.timeout(60_000);
 
   for (const bundle of HOST_BUNDLES) {
@@ -52,6 +72,8 @@ describe('extension-host bundles without LaTeX/HTML output', function () {
       assert.ok(fs.existsSync(file), `${file} is missing: run the build first`);
       const text = fs.readFileSync(file, 'utf8');
       assert.match(text, /mathjs toTex \(LaTeX output\) is not part of the Slopewise extension-host bundle/);
+      assert.ok(text.includes(String.raw`/^[\p{L}][\p{L}\d]*$/u`), 'compact identifier expression missing');
+      assert.ok(!text.includes(String.raw`\uFB13-\uFB17`), 'expanded identifier expression still present');
       // Strings that only mathjs's LaTeX/HTML methods and tables contain (our LaTeX *reader*,
       // src/core/expr/notation/latex.ts, has its own, such as \begin{cases}).
       for (const marker of ['math-parenthesis', 'math-operator', '_derivTex', 'Template: ', '{\\text{otherwise}}']) {
@@ -60,9 +82,10 @@ describe('extension-host bundles without LaTeX/HTML output', function () {
     });
   }
 
-  it('a host build of the core mathjs instance prints and differentiates like mathjs, and toTex/toHTML throw', async () => {
+  it('a host build of the core mathjs instance prints, differentiates and words type errors like mathjs, and toTex/toHTML throw', async () => {
     const { hostWithoutLatex } = await loadPlugin();
-    const { math, inputs } = await buildCoreMath([hostWithoutLatex(ROOT)]);
+    const { mathjsCompactIdentifier } = await loadIdentifier();
+    const { math, inputs } = await buildCoreMath([hostWithoutLatex(ROOT), mathjsCompactIdentifier]);
     // The outside reference: the full mathjs package from npm, untrimmed.
     for (const text of ['sin(x)^2 / (1 + exp(-x))', 'x > 0 ? x : 0.01 * x', 'f(x) = max(x, 0)', '[1, 2; 3, 4]']) {
       assert.equal(math.parse(text).toString(), mathjs.parse(text).toString(), text);
@@ -72,6 +95,20 @@ describe('extension-host bundles without LaTeX/HTML output', function () {
     assert.throws(() => math.parse('f(x) = x > 0 ? x : 0').toTex(), /not part of the Slopewise extension-host bundle/);
     assert.throws(() => math.parse('[a, b]').toHTML(), /toHTML \(HTML output\) is not part of the Slopewise extension-host bundle/);
     assert.ok(!inputs.some((f) => /mathjs\/lib\/(esm|cjs)\/utils\/latex\.js$|escape-latex/.test(f)), inputs.join('\n'));
+    // typed-function names the `identifier` type (the test the compact form replaced) in its errors.
+    const full = mathjs as unknown as MathLike;
+    for (const arg of ['x', 'x1', 'αβ2', '1x', 'x_1', '', 'ſ', '𝑥', 'x\u0301']) {
+      assert.equal(errorMessage(() => math.simplifyCore(math.parse('x'), arg)),
+        errorMessage(() => full.simplifyCore(full.parse('x'), arg)), JSON.stringify(arg));
+    }
+    assert.match(errorMessage(() => math.simplifyCore(math.parse('x'), 'x')), /actual: identifier \| string, index: 1/);
+    assert.match(errorMessage(() => math.simplifyCore(math.parse('x'), '1x')), /actual: string, index: 1/);
+  });
+
+  it('the identifier proof finds a class that differs', async () => {
+    const { identifierDifferences } = await loadIdentifier();
+    assert.deepEqual(identifierDifferences(/^[a-z][a-z\d]*$/, /^[a-z][a-z]*$/, 3), ['U+30 (later)', 'U+31 (later)', 'U+32 (later)']);
+    assert.deepEqual(identifierDifferences(/^[a-y][a-z]*$/, /^[a-z][a-z]*$/, 3), ['U+7A (first)']);
   });
 
   it('without the plugin the same build renders LaTeX as mathjs does (the test above can tell them apart)', async () => {
