@@ -17,7 +17,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { builtinModules } from 'node:module';
 import { fileURLToPath } from 'node:url';
-import { hostWithoutLatex as hostWithoutLatexPlugin } from './lib/host-latex.mjs';
+import { hostMathjsTrim } from './lib/host-mathjs.mjs';
 import { mathjsCompactIdentifier } from './lib/mathjs-identifier.mjs';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
@@ -137,13 +137,13 @@ function integrationTestEntries() {
 // ---------------------------------------------------------------------------------------------
 // EXTENSION-HOST BUNDLES (out/extension.js, out/web/extension.js): options shared by both.
 //
-// The host never renders LaTeX or HTML from mathjs trees: the host-without-latex plugin
-// (scripts/lib/host-latex.mjs) trims mathjs's toTex/toHTML methods and with them its LaTeX tables
-// (~21 kB minified), and fails the build if host code starts using that output. The CLI keeps them.
-const hostWithoutLatex = hostWithoutLatexPlugin(ROOT);
+// The host never renders LaTeX or HTML from mathjs trees and never evaluates them through mathjs (the
+// core compiles checked trees itself): scripts/lib/host-mathjs.mjs trims mathjs's toTex/toHTML and
+// compile/evaluate methods, with the LaTeX tables, and fails the build if host code starts using
+// them. The CLI and the tests keep them.
 // mathjs's deprecated `identifier` type test, expanded by its Babel build into 16.7 kB of UTF-16
 // ranges, goes back to `\p{L}` form, proven equal at build time (scripts/lib/mathjs-identifier.mjs).
-const HOST_PLUGINS = [hostWithoutLatex, mathjsCompactIdentifier];
+const HOST_PLUGINS = [hostMathjsTrim(ROOT), mathjsCompactIdentifier];
 /** Host bundles are read as UTF-8 (Node's loader, the web worker's script fetch): keep non-ASCII text as is, not as \u escapes. */
 const HOST_OPTIONS = { charset: 'utf8' };
 // ---------------------------------------------------------------------------------------------

@@ -1,8 +1,9 @@
-// The extension-host bundles leave mathjs's LaTeX and HTML output out (scripts/lib/host-latex.mjs)
-// and carry mathjs's `identifier` type test in compact form (scripts/lib/mathjs-identifier.mjs): the
-// built bundles carry none of the LaTeX/HTML code, a host build of the core's mathjs instance still
-// parses, prints, differentiates and words type errors as the full mathjs package does but throws a
-// clear error from toTex/toHTML, and the trimming refuses a mathjs file that lacks what it expects.
+// The extension-host bundles leave mathjs's LaTeX/HTML output and its tree evaluation out
+// (scripts/lib/host-mathjs.mjs) and carry mathjs's `identifier` type test in compact form
+// (scripts/lib/mathjs-identifier.mjs): the built bundles carry none of the LaTeX/HTML code, a host
+// build of the core's mathjs instance still parses, prints, differentiates and words type errors as
+// the full mathjs package does but throws a clear error from toTex/toHTML/compile/evaluate, and the
+// trimming refuses a mathjs file that lacks what it expects.
 import * as assert from 'node:assert/strict';
 import * as fs from 'node:fs';
 import * as os from 'node:os';
@@ -21,16 +22,16 @@ interface IdentifierModule {
 const loadIdentifier = async (): Promise<IdentifierModule> =>
   (await import(path.join(ROOT, 'scripts', 'lib', 'mathjs-identifier.mjs'))) as IdentifierModule;
 
-interface HostLatexModule {
-  hostWithoutLatex(root: string): esbuild.Plugin;
+interface HostMathjsModule {
+  hostMathjsTrim(root: string): esbuild.Plugin;
   trimNodeFile(src: string, file: string, className: string): { text: string; trimmed: number };
   trimDerivativeFile(src: string, file: string): { text: string; trimmed: number };
 }
-const loadPlugin = async (): Promise<HostLatexModule> =>
-  (await import(path.join(ROOT, 'scripts', 'lib', 'host-latex.mjs'))) as HostLatexModule;
+const loadPlugin = async (): Promise<HostMathjsModule> =>
+  (await import(path.join(ROOT, 'scripts', 'lib', 'host-mathjs.mjs'))) as HostMathjsModule;
 
 interface MathLike {
-  parse(text: string): { toString(): string; toTex(): string; toHTML(): string };
+  parse(text: string): { toString(): string; toTex(): string; toHTML(): string; evaluate(scope?: object): unknown; compile(): unknown };
   derivative(expr: string, variable: string): { toString(): string };
   simplifyCore(node: unknown, options?: unknown): unknown;
 }
@@ -82,10 +83,10 @@ describe('extension-host bundles: mathjs trimmed at build time', function () {
     });
   }
 
-  it('a host build of the core mathjs instance prints, differentiates and words type errors like mathjs, and toTex/toHTML throw', async () => {
-    const { hostWithoutLatex } = await loadPlugin();
+  it('a host build of the core mathjs instance prints, differentiates and words type errors like mathjs, and toTex/toHTML/compile/evaluate throw', async () => {
+    const { hostMathjsTrim } = await loadPlugin();
     const { mathjsCompactIdentifier } = await loadIdentifier();
-    const { math, inputs } = await buildCoreMath([hostWithoutLatex(ROOT), mathjsCompactIdentifier]);
+    const { math, inputs } = await buildCoreMath([hostMathjsTrim(ROOT), mathjsCompactIdentifier]);
     // The outside reference: the full mathjs package from npm, untrimmed.
     for (const text of ['sin(x)^2 / (1 + exp(-x))', 'x > 0 ? x : 0.01 * x', 'f(x) = max(x, 0)', '[1, 2; 3, 4]']) {
       assert.equal(math.parse(text).toString(), mathjs.parse(text).toString(), text);
@@ -94,6 +95,8 @@ describe('extension-host bundles: mathjs trimmed at build time', function () {
     assert.throws(() => math.parse('x^2').toTex(), /toTex \(LaTeX output\) is not part of the Slopewise extension-host bundle/);
     assert.throws(() => math.parse('f(x) = x > 0 ? x : 0').toTex(), /not part of the Slopewise extension-host bundle/);
     assert.throws(() => math.parse('[a, b]').toHTML(), /toHTML \(HTML output\) is not part of the Slopewise extension-host bundle/);
+    assert.throws(() => math.parse('x + 1').evaluate({ x: 1 }), /compile\/evaluate \(evaluation of expression trees\) is not part/);
+    assert.throws(() => math.parse('sin(x) > 0 ? 1 : 2').compile(), /compile\/evaluate \(evaluation of expression trees\) is not part/);
     assert.ok(!inputs.some((f) => /mathjs\/lib\/(esm|cjs)\/utils\/latex\.js$|escape-latex/.test(f)), inputs.join('\n'));
     // typed-function names the `identifier` type (the test the compact form replaced) in its errors.
     const full = mathjs as unknown as MathLike;
@@ -111,21 +114,22 @@ describe('extension-host bundles: mathjs trimmed at build time', function () {
     assert.deepEqual(identifierDifferences(/^[a-y][a-z]*$/, /^[a-z][a-z]*$/, 3), ['U+7A (first)']);
   });
 
-  it('without the plugin the same build renders LaTeX as mathjs does (the test above can tell them apart)', async () => {
+  it('without the plugin the same build renders LaTeX and evaluates as mathjs does (the test above can tell them apart)', async () => {
     const { math } = await buildCoreMath([]);
     assert.equal(math.parse('sqrt(x) / 2').toTex(), mathjs.parse('sqrt(x) / 2').toTex());
+    assert.equal(math.parse('x + 1').evaluate({ x: 1 }), 2);
   });
 
   it('refuses a mathjs node file that lacks the methods it trims', async () => {
     const { trimNodeFile, trimDerivativeFile } = await loadPlugin();
-    const renamed = 'export class SymbolNode { toString() { return "x"; } _toLatex() { return "x"; } _toHTML() { return "x"; } }';
+    const renamed = 'export class SymbolNode { toString() { return "x"; } _toLatex() { return "x"; } _toHTML() { return "x"; } _compile() {} }';
     assert.throws(() => trimNodeFile(renamed, 'SymbolNode.js', 'SymbolNode'), /expected one method _toTex in class SymbolNode/);
-    assert.throws(() => trimNodeFile('export class Node { toTex() {} _toTex() {} toHTML() {} }', 'Node.js', 'Node'),
+    assert.throws(() => trimNodeFile('export class Node { toTex() {} _toTex() {} toHTML() {} compile() {} _compile() {} evaluate() {} }', 'Node.js', 'Node'),
       /expected one method _toHTML in class Node/);
     assert.throws(() => trimDerivativeFile('export const f = 1;', 'derivative.js'), /expected one `derivative.toTex = …`/);
-    const ok = trimNodeFile('export class SymbolNode { toString() { return "x"; } _toTex() { return "x"; } _toHTML() { return "x"; } }',
+    const ok = trimNodeFile('export class SymbolNode { toString() { return "x"; } _toTex() { return "x"; } _toHTML() { return "x"; } _compile() {} }',
       'SymbolNode.js', 'SymbolNode');
-    assert.equal(ok.trimmed, 2);
-    assert.ok(!ok.text.includes('_toTex') && ok.text.includes('toString'), ok.text);
+    assert.equal(ok.trimmed, 3);
+    assert.ok(!ok.text.includes('_toTex') && !ok.text.includes('_compile') && ok.text.includes('toString'), ok.text);
   });
 });

@@ -1,20 +1,23 @@
-// The extension host never renders LaTeX or HTML from mathjs trees: `latexForm` (mathjs `toTex`) feeds
-// only inspect's `latex` field, which the CLI prints; the hover and diagnostics use the unicode display
-// forms. This esbuild plugin, used for the two extension-host bundles only (not the CLI, not the tests),
-// therefore trims mathjs's LaTeX and HTML output at build time:
-//   - expression/node/*.js: the `_toTex`/`_toHTML` methods of every node class (and FunctionNode's
-//     `toTex` override) are removed, and the `toTex`/`_toTex`/`toHTML`/`_toHTML` methods of the base
-//     class `Node` throw a clear error instead. Every node class inherits from `Node`, so a call of any
-//     of them anywhere in the host throws that error. The LaTeX tables (utils/latex.js, escape-latex)
-//     are then unreferenced and leave the bundle.
-//   - function/algebra/derivative.js: the `derivative.toTex` hook and its `_derivTex` typed-function.
-// The source is parsed with acorn and cut at node boundaries, never patched by pattern.
+// mathjs expression-tree methods the extension host never calls, trimmed from the two extension-host
+// bundles at build time (not from the CLI, not from the tests):
+//   - LaTeX and HTML output. `latexForm` (mathjs `toTex`) feeds only inspect's `latex` field, which the
+//     CLI prints; the hover and diagnostics use the unicode display forms. Trimming the methods lets
+//     the LaTeX tables (utils/latex.js, escape-latex) leave the bundle too.
+//   - mathjs's own evaluation (`node.compile()`, `node.evaluate()`). The core never evaluates through
+//     mathjs: it compiles the whitelisted tree to JavaScript itself (src/core/expr/compile.ts).
+// How: in expression/node/*.js the per-class implementations (`_toTex`, `_toHTML`, `_compile`, and
+// FunctionNode's `toTex` override) are removed, and the entry points of the base class `Node`
+// (`toTex`, `toHTML`, `compile`, `evaluate` and their `_` hooks) throw a clear error instead. Every
+// node class inherits from `Node`, so any such call anywhere in the host throws that error. In
+// function/algebra/derivative.js the `derivative.toTex` hook and its `_derivTex` typed-function go.
+// Nested helper functions only the removed methods used (FunctionNode's `expandTemplate`) go with
+// them. The source is parsed with acorn and cut at node boundaries, never patched by pattern.
 //
-// It fails the build, loudly, when
+// The build fails, loudly, when
 //   - a mathjs file it trims lacks a method or statement it expects (a mathjs upgrade must not
 //     silently stop trimming),
 //   - it trimmed nothing at all, or mathjs's LaTeX tables still end up in the bundle,
-//   - host code of ours uses LaTeX or HTML output (latexForm, toTex, toHTML): then drop this plugin.
+//   - host code of ours uses what is trimmed (latexForm, toTex, toHTML, .compile(), .evaluate()).
 import fs from 'node:fs';
 import path from 'node:path';
 import * as acorn from 'acorn';
@@ -24,21 +27,27 @@ const NODE_FILE = new RegExp(`${MATHJS_LIB}expression[\\\\/]node[\\\\/](\\w*Node
 const DERIVATIVE_FILE = new RegExp(`${MATHJS_LIB}function[\\\\/]algebra[\\\\/]derivative\\.js$`);
 const LATEX_TABLES = new RegExp(`${MATHJS_LIB}utils[\\\\/]latex\\.js$|[\\\\/]escape-latex[\\\\/]`);
 
-const ABSENT = (what) => `{ throw new Error(${JSON.stringify(`mathjs ${what} is not part of the Slopewise extension-host bundle (scripts/lib/host-latex.mjs): LaTeX and HTML output are CLI features`)}); }`;
+const ABSENT = (what, why) => `{ throw new Error(${JSON.stringify(`mathjs ${what} is not part of the Slopewise extension-host bundle (scripts/lib/host-mathjs.mjs): ${why}`)}); }`;
+const OUTPUT = 'LaTeX and HTML output are CLI features';
+const EVALUATION = 'the core evaluates checked trees through src/core/expr/compile.ts';
 /** Node.js: bodies replaced. */
 const BASE_BODIES = {
-  toTex: ABSENT('toTex (LaTeX output)'),
+  toTex: ABSENT('toTex (LaTeX output)', OUTPUT),
   _toTex: '{ return this.toTex(); }',
-  toHTML: ABSENT('toHTML (HTML output)'),
+  toHTML: ABSENT('toHTML (HTML output)', OUTPUT),
   _toHTML: '{ return this.toHTML(); }',
+  compile: ABSENT('compile/evaluate (evaluation of expression trees)', EVALUATION),
+  _compile: '{ return this.compile(); }',
+  evaluate: '{ return this.compile(); }',
 };
 /** Every other node class: methods removed (they fall through to Node's). */
-const SUBCLASS_REMOVED = ['_toTex', '_toHTML'];
+const SUBCLASS_REMOVED = ['_toTex', '_toHTML', '_compile'];
 const SUBCLASS_OPTIONAL = ['toTex', 'toHTML'];
 
 /** Our modules that may mention LaTeX output in the host graph: where it is defined or re-exported. */
 const LATEX_DEFINERS = new Set(['src/core/expr/display.ts', 'src/core/expr/index.ts']);
 const USES_LATEX_OR_HTML = /\blatexForm\b|\.(?:toTex|toHTML)\s*\(/;
+const USES_EVALUATION = /\.(?:compile|evaluate)\s*\(/;
 
 function walk(node, visit) {
   if (!node || typeof node.type !== 'string') return;
@@ -87,7 +96,7 @@ export function trimNodeFile(src, file, className) {
   const missing = expected.filter((name) => found.get(name) !== 1);
   if (missing.length) {
     throw new Error(`expected one method ${missing.join(', ')} in class ${className} of ${file}, found ` +
-      `${missing.map((m) => found.get(m) ?? 0).join(', ')}: mathjs changed; update scripts/lib/host-latex.mjs`);
+      `${missing.map((m) => found.get(m) ?? 0).join(', ')}: mathjs changed; update scripts/lib/host-mathjs.mjs`);
   }
   const text = dropUnusedLocalFunctions(splice(src, cuts), file);
   return { text: text.text, trimmed: cuts.length + text.dropped };
@@ -144,15 +153,15 @@ export function trimDerivativeFile(src, file) {
   });
   if (hook !== 1 || tex !== 1) {
     throw new Error(`expected one \`derivative.toTex = …\` and one \`var _derivTex\` in ${file}, found ${hook} and ${tex}: ` +
-      'mathjs changed; update scripts/lib/host-latex.mjs');
+      'mathjs changed; update scripts/lib/host-mathjs.mjs');
   }
   return { text: splice(src, cuts), trimmed: cuts.length };
 }
 
 /** The plugin. `root` is the build's absWorkingDir (metafile inputs are relative to it). */
-export function hostWithoutLatex(root) {
+export function hostMathjsTrim(root) {
   return {
-    name: 'host-without-latex',
+    name: 'host-mathjs',
     setup(build) {
       let trimmed = 0;
       let nodeFiles = 0;
@@ -164,7 +173,7 @@ export function hostWithoutLatex(root) {
           trimmed += r.trimmed;
           return { contents: r.text, loader: 'js' };
         } catch (e) {
-          return { errors: [{ text: `host-without-latex: ${e.message}` }] };
+          return { errors: [{ text: `host-mathjs: ${e.message}` }] };
         }
       };
       build.onLoad({ filter: NODE_FILE }, load((src, file) => {
@@ -176,20 +185,23 @@ export function hostWithoutLatex(root) {
         if (!result.metafile || result.errors.length) return undefined;
         const errors = [];
         if (nodeFiles === 0 || trimmed === 0) {
-          errors.push({ text: 'host-without-latex: no mathjs expression node file was loaded or trimmed: the mathjs layout changed; update scripts/lib/host-latex.mjs' });
+          errors.push({ text: 'host-mathjs: no mathjs expression node file was loaded or trimmed: the mathjs layout changed; update scripts/lib/host-mathjs.mjs' });
         }
         for (const out of Object.values(result.metafile.outputs)) {
           for (const [input, info] of Object.entries(out.inputs)) {
             if (LATEX_TABLES.test(`/${input}`) && info.bytesInOutput > 0) {
-              errors.push({ text: `host-without-latex: ${input} is still in the extension-host bundle (${info.bytesInOutput} bytes): something else uses mathjs's LaTeX tables; update scripts/lib/host-latex.mjs` });
+              errors.push({ text: `host-mathjs: ${input} is still in the extension-host bundle (${info.bytesInOutput} bytes): something else uses mathjs's LaTeX tables; update scripts/lib/host-mathjs.mjs` });
             }
           }
         }
         for (const input of Object.keys(result.metafile.inputs)) {
-          if (!input.startsWith('src/') || LATEX_DEFINERS.has(input)) continue;
+          if (!input.startsWith('src/')) continue;
           const text = fs.readFileSync(path.join(root, input), 'utf8');
-          if (USES_LATEX_OR_HTML.test(text)) {
-            errors.push({ text: `${input} uses LaTeX or HTML output (latexForm/toTex/toHTML), which the extension-host bundles leave out: remove the host-without-latex plugin (scripts/lib/host-latex.mjs)` });
+          if (!LATEX_DEFINERS.has(input) && USES_LATEX_OR_HTML.test(text)) {
+            errors.push({ text: `${input} uses LaTeX or HTML output (latexForm/toTex/toHTML), which the extension-host bundles leave out (scripts/lib/host-mathjs.mjs)` });
+          }
+          if (USES_EVALUATION.test(text)) {
+            errors.push({ text: `${input} calls .compile()/.evaluate(), which the extension-host bundles leave out of mathjs trees (scripts/lib/host-mathjs.mjs): use src/core/expr/compile.ts` });
           }
         }
         // esbuild does not print errors returned from onEnd: say it here.
