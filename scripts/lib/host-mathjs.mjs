@@ -8,9 +8,8 @@
 // How: in expression/node/*.js the per-class implementations (`_toTex`, `_toHTML`, `_compile`, and
 // FunctionNode's `toTex` override) are removed, and the entry points of the base class `Node`
 // (`toTex`, `toHTML`, `compile`, `evaluate` and their `_` hooks) throw a clear error instead. Every
-// node class inherits from `Node`, so any such call anywhere in the host throws that error. In
-// function/algebra/derivative.js the `derivative.toTex` hook and its `_derivTex` typed-function go.
-// Nested helper functions only the removed methods used (FunctionNode's `expandTemplate`) go with
+// node class inherits from `Node`, so any such call anywhere in the host throws that error. Nested
+// helper functions only the removed methods used (FunctionNode's `expandTemplate`) go with
 // them. The source is parsed with acorn and cut at node boundaries, never patched by pattern.
 //
 // The build fails, loudly, when
@@ -24,7 +23,6 @@ import * as acorn from 'acorn';
 
 const MATHJS_LIB = String.raw`[\\/]mathjs[\\/]lib[\\/](?:esm|cjs)[\\/]`;
 const NODE_FILE = new RegExp(`${MATHJS_LIB}expression[\\\\/]node[\\\\/](\\w*Node)\\.js$`);
-const DERIVATIVE_FILE = new RegExp(`${MATHJS_LIB}function[\\\\/]algebra[\\\\/]derivative\\.js$`);
 const LATEX_TABLES = new RegExp(`${MATHJS_LIB}utils[\\\\/]latex\\.js$|[\\\\/]escape-latex[\\\\/]`);
 
 const ABSENT = (what, why) => `{ throw new Error(${JSON.stringify(`mathjs ${what} is not part of the Slopewise extension-host bundle (scripts/lib/host-mathjs.mjs): ${why}`)}); }`;
@@ -129,35 +127,6 @@ function dropUnusedLocalFunctions(src, file) {
   }
 }
 
-/** Removes `derivative.toTex = …` and the `_derivTex` typed-function it calls. */
-export function trimDerivativeFile(src, file) {
-  const cuts = [];
-  let hook = 0;
-  let tex = 0;
-  walk(parse(src, file), (n) => {
-    if (n.type === 'ExpressionStatement' && n.expression.type === 'AssignmentExpression') {
-      const l = n.expression.left;
-      if (l.type === 'MemberExpression' && !l.computed && l.object.type === 'Identifier' && l.object.name === 'derivative' &&
-        l.property.name === 'toTex') {
-        cuts.push([n.start, n.end, '']);
-        hook++;
-        return false;
-      }
-    }
-    if (n.type === 'VariableDeclaration' && n.declarations.length === 1 && n.declarations[0].id.name === '_derivTex') {
-      cuts.push([n.start, n.end, '']);
-      tex++;
-      return false;
-    }
-    return undefined;
-  });
-  if (hook !== 1 || tex !== 1) {
-    throw new Error(`expected one \`derivative.toTex = …\` and one \`var _derivTex\` in ${file}, found ${hook} and ${tex}: ` +
-      'mathjs changed; update scripts/lib/host-mathjs.mjs');
-  }
-  return { text: splice(src, cuts), trimmed: cuts.length };
-}
-
 /** The plugin. `root` is the build's absWorkingDir (metafile inputs are relative to it). */
 export function hostMathjsTrim(root) {
   return {
@@ -180,7 +149,6 @@ export function hostMathjsTrim(root) {
         nodeFiles++;
         return trimNodeFile(src, file, NODE_FILE.exec(file)[1]);
       }));
-      build.onLoad({ filter: DERIVATIVE_FILE }, load(trimDerivativeFile));
       build.onEnd((result) => {
         if (!result.metafile || result.errors.length) return undefined;
         const errors = [];
