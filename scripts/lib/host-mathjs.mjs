@@ -4,7 +4,9 @@
 //     CLI prints; the hover and diagnostics use the unicode display forms. Trimming the methods lets
 //     the LaTeX tables (utils/latex.js, escape-latex) leave the bundle too.
 //   - mathjs's own evaluation (`node.compile()`, `node.evaluate()`). The core never evaluates through
-//     mathjs: it compiles the whitelisted tree to JavaScript itself (src/core/expr/compile.ts).
+//     mathjs: it compiles the whitelisted tree to JavaScript itself (src/core/expr/compile.ts). The
+//     plugin also defines SLOPEWISE_HOST_BUNDLE, which leaves out of src/core/math.ts the mathjs
+//     functions only that evaluation calls (exp, sin, max, pi, …).
 // How: in expression/node/*.js the per-class implementations (`_toTex`, `_toHTML`, `_compile`, and
 // FunctionNode's `toTex` override) are removed, and the entry points of the base class `Node`
 // (`toTex`, `toHTML`, `compile`, `evaluate` and their `_` hooks) throw a clear error instead. Every
@@ -16,7 +18,8 @@
 //   - a mathjs file it trims lacks a method or statement it expects (a mathjs upgrade must not
 //     silently stop trimming),
 //   - it trimmed nothing at all, or mathjs's LaTeX tables still end up in the bundle,
-//   - host code of ours uses what is trimmed (latexForm, toTex, toHTML, .compile(), .evaluate()).
+//   - host code of ours uses what is trimmed (latexForm, toTex, toHTML, .compile(), .evaluate(), or
+//     one of the left-out functions on the mathjs instance, `math.exp`…).
 import fs from 'node:fs';
 import path from 'node:path';
 import * as acorn from 'acorn';
@@ -46,6 +49,12 @@ const SUBCLASS_OPTIONAL = ['toTex', 'toHTML'];
 const LATEX_DEFINERS = new Set(['src/core/expr/display.ts', 'src/core/expr/index.ts']);
 const USES_LATEX_OR_HTML = /\blatexForm\b|\.(?:toTex|toHTML)\s*\(/;
 const USES_EVALUATION = /\.(?:compile|evaluate)\s*\(/;
+/** The functions src/core/math.ts leaves out when SLOPEWISE_HOST_BUNDLE is defined. */
+const EVALUATION_ONLY = ['exp', 'log', 'log1p', 'expm1', 'sqrt', 'cbrt', 'abs', 'sign', 'sin', 'cos', 'tan', 'sinh', 'cosh',
+  'tanh', 'sech', 'asinh', 'atan', 'max', 'min', 'mod', 'pi', 'e'];
+// Not inside a string ('math.exp' is text guess.ts looks for) or a comment (stripped first).
+const USES_EVALUATION_ONLY = new RegExp(`(?<!['"\`\\w.])\\bmath\\.(?:${EVALUATION_ONLY.join('|')})\\b`);
+const withoutComments = (ts) => ts.replace(/\/\*[\s\S]*?\*\//g, '').replace(/(^|[^:'"\\])\/\/.*$/gm, '$1');
 
 function walk(node, visit) {
   if (!node || typeof node.type !== 'string') return;
@@ -132,6 +141,7 @@ export function hostMathjsTrim(root) {
   return {
     name: 'host-mathjs',
     setup(build) {
+      build.initialOptions.define = { ...build.initialOptions.define, SLOPEWISE_HOST_BUNDLE: 'true' };
       let trimmed = 0;
       let nodeFiles = 0;
       build.onStart(() => { trimmed = 0; nodeFiles = 0; });
@@ -167,6 +177,10 @@ export function hostMathjsTrim(root) {
           const text = fs.readFileSync(path.join(root, input), 'utf8');
           if (!LATEX_DEFINERS.has(input) && USES_LATEX_OR_HTML.test(text)) {
             errors.push({ text: `${input} uses LaTeX or HTML output (latexForm/toTex/toHTML), which the extension-host bundles leave out (scripts/lib/host-mathjs.mjs)` });
+          }
+          const evalOnly = USES_EVALUATION_ONLY.exec(withoutComments(text));
+          if (evalOnly) {
+            errors.push({ text: `${input} uses ${evalOnly[0]}, which the extension-host bundles leave out of the mathjs instance (src/core/math.ts, SLOPEWISE_HOST_BUNDLE)` });
           }
           if (USES_EVALUATION.test(text)) {
             errors.push({ text: `${input} calls .compile()/.evaluate(), which the extension-host bundles leave out of mathjs trees (scripts/lib/host-mathjs.mjs): use src/core/expr/compile.ts` });

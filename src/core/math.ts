@@ -58,22 +58,14 @@ import {
 import type { FactoryFunctionMap } from 'mathjs';
 
 /**
- * The factories of `math`, also for tests that need an instance like it with more (mathjs's
- * derivative, as an outside reference). The mathjs typings declare every `*Dependencies` export as
- * possibly undefined; they are all present in mathjs/number, hence the cast.
+ * Functions only mathjs's own evaluation of trees (`node.evaluate`, `node.compile`) calls: the tests,
+ * the bench and the CLI evaluate with them. The core never does (it compiles checked trees itself,
+ * compile.ts), and simplify never evaluates a function either: it sees layers of operators only
+ * (simplify.ts abstracts every call). The extension-host bundles, which trim mathjs's evaluation
+ * (scripts/lib/host-mathjs.mjs), define SLOPEWISE_HOST_BUNDLE and so leave these out.
  */
-export const mathDependencies = {
-  parseDependencies,
-  simplifyDependencies,
-  simplifyCoreDependencies,
-  simplifyConstantDependencies,
-  addDependencies,
-  subtractDependencies,
-  multiplyDependencies,
-  divideDependencies,
-  powDependencies,
-  unaryMinusDependencies,
-  unaryPlusDependencies,
+declare const SLOPEWISE_HOST_BUNDLE: boolean | undefined;
+const evaluationOnly = typeof SLOPEWISE_HOST_BUNDLE !== 'undefined' && SLOPEWISE_HOST_BUNDLE ? {} : {
   expDependencies,
   logDependencies,
   log1pDependencies,
@@ -91,9 +83,32 @@ export const mathDependencies = {
   sechDependencies,
   asinhDependencies,
   atanDependencies,
-  erfDependencies,
   maxDependencies,
   minDependencies,
+  modDependencies,
+  piDependencies,
+  eDependencies,
+};
+
+/**
+ * The factories of `math`, also for tests that need an instance like it with more (mathjs's
+ * derivative, as an outside reference). The mathjs typings declare every `*Dependencies` export as
+ * possibly undefined; they are all present in mathjs/number, hence the cast.
+ */
+export const mathDependencies = {
+  ...evaluationOnly,
+  parseDependencies,
+  simplifyDependencies,
+  simplifyCoreDependencies,
+  simplifyConstantDependencies,
+  addDependencies,
+  subtractDependencies,
+  multiplyDependencies,
+  divideDependencies,
+  powDependencies,
+  unaryMinusDependencies,
+  unaryPlusDependencies,
+  erfDependencies, // compile.ts calls mathjs's erf implementation
   smallerDependencies,
   smallerEqDependencies,
   largerDependencies,
@@ -103,11 +118,8 @@ export const mathDependencies = {
   andDependencies,
   orDependencies,
   notDependencies,
-  modDependencies,
-  piDependencies,
-  eDependencies,
   // No `evaluate`: the core never evaluates text. Tests that check our output is stock-mathjs
   // evaluable use the full `mathjs` package; trees are evaluated with `node.evaluate` or compile.ts.
-  } as unknown as FactoryFunctionMap;
+} as unknown as FactoryFunctionMap;
 
 export const math = create(mathDependencies, {});
