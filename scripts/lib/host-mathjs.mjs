@@ -14,6 +14,13 @@
 // helper functions only the removed methods used (FunctionNode's `expandTemplate`) go with
 // them. The source is parsed with acorn and cut at node boundaries, never patched by pattern.
 //
+// Also, in plain/number/*.js, `export function fooNumber(…) {…}` followed by `fooNumber.signature = …`
+// becomes `export var fooNumber = /* @__PURE__ */ signed(function fooNumber(…) {…}, …)`: the same
+// function with the same property, set at the same point of the module, but in a form esbuild may
+// drop when nothing uses it (a top-level property assignment counts as a side effect, so every
+// plain-number implementation stayed in the bundle, used or not). Nothing in those files or their
+// importers calls them before the module has run (no import cycle reaches them).
+//
 // The build fails, loudly, when
 //   - a mathjs file it trims lacks a method or statement it expects (a mathjs upgrade must not
 //     silently stop trimming),
@@ -25,6 +32,7 @@ import path from 'node:path';
 import * as acorn from 'acorn';
 
 const MATHJS_LIB = String.raw`[\\/]mathjs[\\/]lib[\\/](?:esm|cjs)[\\/]`;
+const PLAIN_NUMBER_FILE = new RegExp(`${MATHJS_LIB}plain[\\\\/]number[\\\\/]\\w+\\.js$`);
 const NODE_FILE = new RegExp(`${MATHJS_LIB}expression[\\\\/]node[\\\\/](\\w*Node)\\.js$`);
 const LATEX_TABLES = new RegExp(`${MATHJS_LIB}utils[\\\\/]latex\\.js$|[\\\\/]escape-latex[\\\\/]`);
 
@@ -136,6 +144,35 @@ function dropUnusedLocalFunctions(src, file) {
   }
 }
 
+const SIGNED = '__slopewiseSigned';
+
+/**
+ * Rewrites each `export function f(…) {…}` directly followed by `f.signature = expr;` into a pure
+ * call that returns the function with its signature set. Returns the new text and how many.
+ */
+export function pureSignatures(src, file) {
+  const body = parse(src, file).body;
+  const cuts = [];
+  for (let i = 0; i + 1 < body.length; i++) {
+    const decl = body[i];
+    const next = body[i + 1];
+    const fnDecl = decl.type === 'ExportNamedDeclaration' ? decl.declaration : null;
+    if (fnDecl?.type !== 'FunctionDeclaration' || fnDecl.async || fnDecl.generator) continue;
+    const name = fnDecl.id.name;
+    const e = next.type === 'ExpressionStatement' ? next.expression : null;
+    if (e?.type !== 'AssignmentExpression' || e.operator !== '=' || e.left.type !== 'MemberExpression' || e.left.computed ||
+      e.left.object.type !== 'Identifier' || e.left.object.name !== name || e.left.property.name !== 'signature') continue;
+    cuts.push([decl.start, next.end,
+      `export var ${name} = /* @__PURE__ */ ${SIGNED}(${src.slice(fnDecl.start, fnDecl.end)}, ${src.slice(e.right.start, e.right.end)});`]);
+    i++;
+  }
+  const text = cuts.length ? `${splice(src, cuts)}\nfunction ${SIGNED}(fn, signature) {\n  fn.signature = signature;\n  return fn;\n}\n` : src;
+  // Nothing else may still assign a signature at the top level (a form this rewrite does not know).
+  const left = parse(text, file).body.filter((n) => n.type === 'ExpressionStatement' && /\.signature\s*=/.test(text.slice(n.start, n.end)));
+  if (left.length) throw new Error(`top-level signature assignments this plugin does not recognise in ${file}: update scripts/lib/host-mathjs.mjs`);
+  return { text, trimmed: cuts.length };
+}
+
 /** The plugin. `root` is the build's absWorkingDir (metafile inputs are relative to it). */
 export function hostMathjsTrim(root) {
   return {
@@ -143,25 +180,30 @@ export function hostMathjsTrim(root) {
     setup(build) {
       build.initialOptions.define = { ...build.initialOptions.define, SLOPEWISE_HOST_BUNDLE: 'true' };
       let trimmed = 0;
+      let signed = 0;
       let nodeFiles = 0;
-      build.onStart(() => { trimmed = 0; nodeFiles = 0; });
-      const load = (trim) => async (args) => {
+      build.onStart(() => { trimmed = 0; nodeFiles = 0; signed = 0; });
+      const load = (trim, count) => async (args) => {
         const src = await fs.promises.readFile(args.path, 'utf8');
         try {
           const r = trim(src, args.path);
-          trimmed += r.trimmed;
+          count(r.trimmed);
           return { contents: r.text, loader: 'js' };
         } catch (e) {
           return { errors: [{ text: `host-mathjs: ${e.message}` }] };
         }
       };
+      build.onLoad({ filter: PLAIN_NUMBER_FILE }, load(pureSignatures, (n) => { signed += n; }));
       build.onLoad({ filter: NODE_FILE }, load((src, file) => {
         nodeFiles++;
         return trimNodeFile(src, file, NODE_FILE.exec(file)[1]);
-      }));
+      }, (n) => { trimmed += n; }));
       build.onEnd((result) => {
         if (!result.metafile || result.errors.length) return undefined;
         const errors = [];
+        if (signed === 0) {
+          errors.push({ text: 'host-mathjs: no `fooNumber.signature = …` found in mathjs plain/number/*.js: the mathjs layout changed; update scripts/lib/host-mathjs.mjs' });
+        }
         if (nodeFiles === 0 || trimmed === 0) {
           errors.push({ text: 'host-mathjs: no mathjs expression node file was loaded or trimmed: the mathjs layout changed; update scripts/lib/host-mathjs.mjs' });
         }

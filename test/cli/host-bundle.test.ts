@@ -25,6 +25,7 @@ const loadIdentifier = async (): Promise<IdentifierModule> =>
 interface HostMathjsModule {
   hostMathjsTrim(root: string): esbuild.Plugin;
   trimNodeFile(src: string, file: string, className: string): { text: string; trimmed: number };
+  pureSignatures(src: string, file: string): { text: string; trimmed: number };
 }
 const loadPlugin = async (): Promise<HostMathjsModule> =>
   (await import(path.join(ROOT, 'scripts', 'lib', 'host-mathjs.mjs'))) as HostMathjsModule;
@@ -134,5 +135,29 @@ describe('extension-host bundles: mathjs trimmed at build time', function () {
       'SymbolNode.js', 'SymbolNode');
     assert.equal(ok.trimmed, 3);
     assert.ok(!ok.text.includes('_toTex') && !ok.text.includes('_compile') && ok.text.includes('toString'), ok.text);
+  });
+
+  it('plain-number implementations keep their signature and leave the bundle when unused', async () => {
+    const { pureSignatures } = await loadPlugin();
+    const src = "var n1 = 'number';\nexport function aNumber(x) {\n  return x + 1;\n}\naNumber.signature = n1;\n" +
+      "export function bNumber(x) {\n  return x * 271828;\n}\nbNumber.signature = 'number, number';\n";
+    const r = pureSignatures(src, 'plain/number/demo.js');
+    assert.equal(r.trimmed, 2);
+    const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'slopewise-signatures-'));
+    try {
+      fs.writeFileSync(path.join(dir, 'demo.js'), r.text);
+      fs.writeFileSync(path.join(dir, 'entry.js'), "export { aNumber } from './demo.js';\n");
+      const outfile = path.join(dir, 'out.cjs');
+      await esbuild.build({ entryPoints: [path.join(dir, 'entry.js')], bundle: true, format: 'cjs', platform: 'node', outfile, logLevel: 'silent' });
+      assert.ok(!fs.readFileSync(outfile, 'utf8').includes('271828'), 'the unused function stayed');
+      // eslint-disable-next-line @typescript-eslint/no-require-imports
+      const { aNumber } = require(outfile) as { aNumber: ((x: number) => number) & { signature: string } };
+      assert.equal(aNumber(1), 2);
+      assert.equal(aNumber.signature, 'number');
+    } finally {
+      fs.rmSync(dir, { recursive: true, force: true });
+    }
+    assert.throws(() => pureSignatures('export function f() {}\nvar g = 1;\nf.signature = "number";\n', 'plain/number/odd.js'),
+      /top-level signature assignments this plugin does not recognise/);
   });
 });
