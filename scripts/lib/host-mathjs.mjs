@@ -7,6 +7,9 @@
 //     mathjs: it compiles the whitelisted tree to JavaScript itself (src/core/expr/compile.ts). The
 //     plugin also defines SLOPEWISE_HOST_BUNDLE, which leaves out of src/core/math.ts the mathjs
 //     functions only that evaluation calls (exp, sin, max, pi, …).
+//   - the tree methods (printing, walking, copying, JSON) of the node types the whitelist refuses
+//     outright and our generated text never parses into (assignments, arrays, objects, accessors,
+//     indexes, ranges, blocks, function definitions): see REFUSED_CLASSES.
 // How: in expression/node/*.js the per-class implementations (`_toTex`, `_toHTML`, `_compile`, and
 // FunctionNode's `toTex` override) are removed, and the entry points of the base class `Node`
 // (`toTex`, `toHTML`, `compile`, `evaluate` and their `_` hooks) throw a clear error instead. Every
@@ -25,6 +28,7 @@
 //   - a mathjs file it trims lacks a method or statement it expects (a mathjs upgrade must not
 //     silently stop trimming),
 //   - it trimmed nothing at all, or mathjs's LaTeX tables still end up in the bundle,
+//   - src/core/expr/whitelist.ts stops refusing one of REFUSED_CLASSES outright,
 //   - host code of ours uses what is trimmed (latexForm, toTex, toHTML, .compile(), .evaluate(), or
 //     one of the left-out functions on the mathjs instance, `math.exp`…).
 import fs from 'node:fs';
@@ -52,6 +56,16 @@ const BASE_BODIES = {
 /** Every other node class: methods removed (they fall through to Node's). */
 const SUBCLASS_REMOVED = ['_toTex', '_toHTML', '_compile'];
 const SUBCLASS_OPTIONAL = ['toTex', 'toHTML'];
+/**
+ * Node types the whitelist (src/core/expr/whitelist.ts) refuses straight after parsing user text, and
+ * that our own generated text (stock-mathjs text printed from checked trees: no `=`, `;`, `[`, `{`,
+ * `.` after a name, nor `:` outside `?:`) never parses into. Nothing in the host walks, prints, copies
+ * or serialises them, so their tree methods go too (they fall through to Node's, which throw);
+ * constructors and what the constructors call stay. RelationalNode is not among them: printed chains
+ * of comparisons can parse back into one.
+ */
+const REFUSED_CLASSES = ['AccessorNode', 'ArrayNode', 'AssignmentNode', 'BlockNode', 'FunctionAssignmentNode', 'IndexNode', 'ObjectNode', 'RangeNode'];
+const REFUSED_REMOVED = ['_toString', 'forEach', 'map', 'clone', 'toJSON', 'static fromJSON'];
 
 /** Our modules that may mention LaTeX output in the host graph: where it is defined or re-exported. */
 const LATEX_DEFINERS = new Set(['src/core/expr/display.ts', 'src/core/expr/index.ts']);
@@ -96,7 +110,13 @@ export function trimNodeFile(src, file, className) {
     if (n.id?.name !== className) return undefined;
     for (const m of n.body.body) {
       const name = methodName(m);
-      if (!name || m.static) continue;
+      if (!name) continue;
+      if (REFUSED_CLASSES.includes(className) && REFUSED_REMOVED.includes(m.static ? `static ${name}` : name)) {
+        cuts.push([m.start, m.end, '']);
+        found.set(m.static ? `static ${name}` : name, (found.get(m.static ? `static ${name}` : name) ?? 0) + 1);
+        continue;
+      }
+      if (m.static) continue;
       if (className === 'Node' && Object.hasOwn(BASE_BODIES, name)) {
         cuts.push([m.value.body.start, m.value.body.end, BASE_BODIES[name]]);
         found.set(name, (found.get(name) ?? 0) + 1);
@@ -107,7 +127,8 @@ export function trimNodeFile(src, file, className) {
     }
     return false;
   });
-  const expected = className === 'Node' ? Object.keys(BASE_BODIES) : SUBCLASS_REMOVED;
+  const expected = className === 'Node' ? Object.keys(BASE_BODIES)
+    : [...SUBCLASS_REMOVED, ...(REFUSED_CLASSES.includes(className) ? REFUSED_REMOVED : [])];
   const missing = expected.filter((name) => found.get(name) !== 1);
   if (missing.length) {
     throw new Error(`expected one method ${missing.join(', ')} in class ${className} of ${file}, found ` +
@@ -212,6 +233,12 @@ export function hostMathjsTrim(root) {
             if (LATEX_TABLES.test(`/${input}`) && info.bytesInOutput > 0) {
               errors.push({ text: `host-mathjs: ${input} is still in the extension-host bundle (${info.bytesInOutput} bytes): something else uses mathjs's LaTeX tables; update scripts/lib/host-mathjs.mjs` });
             }
+          }
+        }
+        const whitelist = fs.readFileSync(path.join(root, 'src/core/expr/whitelist.ts'), 'utf8');
+        for (const cls of REFUSED_CLASSES) {
+          if (!new RegExp(`case '${cls}':(\\s*case '\\w+':)*\\s*throw `).test(whitelist)) {
+            errors.push({ text: `host-mathjs: src/core/expr/whitelist.ts no longer refuses ${cls} outright, but the host bundles trim its tree methods: update REFUSED_CLASSES in scripts/lib/host-mathjs.mjs` });
           }
         }
         for (const input of Object.keys(result.metafile.inputs)) {

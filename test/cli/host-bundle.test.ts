@@ -31,7 +31,10 @@ const loadPlugin = async (): Promise<HostMathjsModule> =>
   (await import(path.join(ROOT, 'scripts', 'lib', 'host-mathjs.mjs'))) as HostMathjsModule;
 
 interface MathLike {
-  parse(text: string): { toString(): string; toTex(): string; toHTML(): string; evaluate(scope?: object): unknown; compile(): unknown };
+  parse(text: string): {
+    type: string; toString(): string; toTex(): string; toHTML(): string; evaluate(scope?: object): unknown; compile(): unknown;
+    map(f: (n: unknown) => unknown): unknown;
+  };
   simplify(expr: string): { toString(): string };
   simplifyCore(node: unknown, options?: unknown): unknown;
 }
@@ -46,19 +49,30 @@ function errorMessage(fn: () => unknown): string {
   throw new Error('expected an error');
 }
 
-/** Bundles src/core/math.ts the way the host targets do (or without the plugin) and loads it. */
-async function buildCoreMath(plugins: esbuild.Plugin[]): Promise<{ math: MathLike; inputs: string[] }> {
+interface CoreLike {
+  math: MathLike;
+  parseFormula(text: string): { node: unknown };
+  derive(formula: { node: unknown }): { first: string; second: string };
+  checkWhitelist(node: unknown, locate: () => undefined): void;
+}
+
+/** Bundles the core's mathjs instance and formula reader the way the host targets do (or without the plugins) and loads them. */
+async function buildCoreMath(plugins: esbuild.Plugin[]): Promise<CoreLike & { inputs: string[] }> {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'slopewise-host-bundle-'));
   try {
     const outfile = path.join(dir, 'math.cjs');
+    const entry = path.join(dir, 'entry.ts');
+    fs.writeFileSync(entry, `export { math } from ${JSON.stringify(path.join(ROOT, 'src', 'core', 'math'))};\n` +
+      `export { parseFormula, derive } from ${JSON.stringify(path.join(ROOT, 'src', 'core', 'expr'))};\n` +
+      `export { checkWhitelist } from ${JSON.stringify(path.join(ROOT, 'src', 'core', 'expr', 'whitelist'))};\n`);
     const r = await esbuild.build({
-      entryPoints: [path.join(ROOT, 'src', 'core', 'math.ts')], bundle: true, platform: 'node', format: 'cjs',
+      entryPoints: [entry], bundle: true, platform: 'node', format: 'cjs',
       target: 'node20', outfile, metafile: true, logLevel: 'silent', absWorkingDir: ROOT, plugins,
     });
     const out = Object.values(r.metafile.outputs)[0]!;
     const inputs = Object.entries(out.inputs).filter(([, i]) => i.bytesInOutput > 0).map(([f]) => f);
     // eslint-disable-next-line @typescript-eslint/no-require-imports
-    return { math: (require(outfile) as { math: MathLike }).math, inputs };
+    return { ...(require(outfile) as CoreLike), inputs };
   } finally {
     fs.rmSync(dir, { recursive: true, force: true });
   }
@@ -88,7 +102,7 @@ describe('extension-host bundles: mathjs trimmed at build time', function () {
     const { mathjsCompactIdentifier } = await loadIdentifier();
     const { math, inputs } = await buildCoreMath([hostMathjsTrim(ROOT), mathjsCompactIdentifier]);
     // The outside reference: the full mathjs package from npm, untrimmed.
-    for (const text of ['sin(x)^2 / (1 + exp(-x))', 'x > 0 ? x : 0.01 * x', 'f(x) = max(x, 0)', '[1, 2; 3, 4]']) {
+    for (const text of ['sin(x)^2 / (1 + exp(-x))', 'x > 0 ? x : 0.01 * x', 'max(x, 0) != 1', 'a < b <= c']) {
       assert.equal(math.parse(text).toString(), mathjs.parse(text).toString(), text);
     }
     for (const text of ['2 * x + 3 * x', 'x * x / x ^ 2 + (1 > 0)', '0.5 * exp(y) * 2']) {
@@ -131,6 +145,8 @@ describe('extension-host bundles: mathjs trimmed at build time', function () {
     assert.throws(() => trimNodeFile(renamed, 'SymbolNode.js', 'SymbolNode'), /expected one method _toTex in class SymbolNode/);
     assert.throws(() => trimNodeFile('export class Node { toTex() {} _toTex() {} toHTML() {} compile() {} _compile() {} evaluate() {} }', 'Node.js', 'Node'),
       /expected one method _toHTML in class Node/);
+    assert.throws(() => trimNodeFile('export class RangeNode { _toTex() {} _toHTML() {} _compile() {} _toString() {} forEach() {} map() {} clone() {} toJSON() {} }',
+      'RangeNode.js', 'RangeNode'), /expected one method static fromJSON in class RangeNode/);
     const ok = trimNodeFile('export class SymbolNode { toString() { return "x"; } _toTex() { return "x"; } _toHTML() { return "x"; } _compile() {} }',
       'SymbolNode.js', 'SymbolNode');
     assert.equal(ok.trimmed, 3);
@@ -159,5 +175,36 @@ describe('extension-host bundles: mathjs trimmed at build time', function () {
     }
     assert.throws(() => pureSignatures('export function f() {}\nvar g = 1;\nf.signature = "number";\n', 'plain/number/odd.js'),
       /top-level signature assignments this plugin does not recognise/);
+  });
+
+  it('refused node types: the host reads and refuses formulas exactly as before, and their tree methods throw', async () => {
+    const { hostMathjsTrim } = await loadPlugin();
+    const { mathjsCompactIdentifier } = await loadIdentifier();
+    const host = await buildCoreMath([hostMathjsTrim(ROOT), mathjsCompactIdentifier]);
+    const full = await buildCoreMath([]);
+    const outcome = (core: CoreLike, text: string): string => {
+      try {
+        const d = core.derive(core.parseFormula(text));
+        return `ok ${d.first} | ${d.second}`;
+      } catch (e) {
+        const err = e as { code?: string; message: string; position?: number };
+        return `error ${err.code} ${err.position} ${err.message}`;
+      }
+    };
+    const refused = ['a = x', 'f(x) = x^2', '[x, 1]', '{a: x}', 'x.y', 'v[1]', '1:3', 'x; x', 'x\n1', 'a.b(x)', 'g(x)[2]', 'x < 1 < 2', '(x = 1) + 2'];
+    const read = ['tanh(x) * sigmoid(x)', 'max(x, 0.1 * x)', 'gelu(x)', 'x > 0 ? x : exp(x) - 1', 'log(1 + exp(x))', 'x == 1 ? 0 : x', 'cbrt(x) + atan(x)'];
+    for (const text of [...refused, ...read]) assert.equal(outcome(host, text), outcome(full, text), `${text}: ${outcome(host, text)} vs ${outcome(full, text)}`);
+    for (const text of ['[x, 1]', '{a: x}', '1:3', 'x; x', 'x < 1 < 2']) assert.match(outcome(host, text), /^error not-allowed/, text);
+    // Straight at the whitelist, past the notation layer's own refusals: every refused node type.
+    const whitelisted = (core: CoreLike, text: string): string => errorMessage(() => core.checkWhitelist(core.math.parse(text), () => undefined));
+    for (const text of ['a = x', 'f(x) = x', '[x, 1]', '{a: x}', 'x.y', 'v[1]', '1:3', 'x; x', 'x < 1 < 2', 'sin(a.b)', 'max([1], x)']) {
+      assert.equal(whitelisted(host, text), whitelisted(full, text), text);
+    }
+    for (const text of read) assert.match(outcome(host, text), /^ok /, text);
+    const assignment = host.math.parse('a = x');
+    assert.equal(assignment.type, 'AssignmentNode');
+    assert.throws(() => assignment.toString(), /_toString not implemented for AssignmentNode/);
+    assert.throws(() => host.math.parse('[x, 1]').map((n) => n), /Cannot run map on a Node interface/);
+    assert.equal(full.math.parse('a = x').toString(), 'a = x');
   });
 });
