@@ -22,7 +22,9 @@
 // function with the same property, set at the same point of the module, but in a form esbuild may
 // drop when nothing uses it (a top-level property assignment counts as a side effect, so every
 // plain-number implementation stayed in the bundle, used or not). Nothing in those files or their
-// importers calls them before the module has run (no import cycle reaches them).
+// importers calls them before the module has run (no import cycle reaches them). And in
+// factoriesNumber.js the few `export var createX = createNumberFactory(…)` lines that lack mathjs's
+// usual `/* #__PURE__ */` mark get it (gamma, lgamma, combinations: unused, they kept their tables).
 //
 // The build fails, loudly, when
 //   - a mathjs file it trims lacks a method or statement it expects (a mathjs upgrade must not
@@ -37,6 +39,7 @@ import * as acorn from 'acorn';
 
 const MATHJS_LIB = String.raw`[\\/]mathjs[\\/]lib[\\/](?:esm|cjs)[\\/]`;
 const PLAIN_NUMBER_FILE = new RegExp(`${MATHJS_LIB}plain[\\\\/]number[\\\\/]\\w+\\.js$`);
+const FACTORIES_NUMBER_FILE = new RegExp(`${MATHJS_LIB}factoriesNumber\\.js$`);
 const NODE_FILE = new RegExp(`${MATHJS_LIB}expression[\\\\/]node[\\\\/](\\w*Node)\\.js$`);
 const LATEX_TABLES = new RegExp(`${MATHJS_LIB}utils[\\\\/]latex\\.js$|[\\\\/]escape-latex[\\\\/]`);
 
@@ -194,6 +197,23 @@ export function pureSignatures(src, file) {
   return { text, trimmed: cuts.length };
 }
 
+/** Marks `export var createX = createNumberFactory(…)` (and the like) pure where mathjs did not. */
+export function pureFactories(src, file) {
+  const cuts = [];
+  for (const n of parse(src, file).body) {
+    const d = n.type === 'ExportNamedDeclaration' ? n.declaration : null;
+    if (d?.type !== 'VariableDeclaration' || d.declarations.length !== 1) continue;
+    const init = d.declarations[0].init;
+    if (init?.type !== 'CallExpression' || init.callee.type !== 'Identifier' || !/^(?:factory|createNumber\w*Factory)$/.test(init.callee.name)) continue;
+    if (/__PURE__/.test(src.slice(d.declarations[0].id.end, init.start))) continue;
+    cuts.push([init.start, init.start, '/* @__PURE__ */ ']);
+  }
+  if (!cuts.length) {
+    throw new Error(`every factory in ${file} is marked pure already: mathjs fixed it; drop pureFactories from scripts/lib/host-mathjs.mjs`);
+  }
+  return { text: splice(src, cuts), trimmed: cuts.length };
+}
+
 /** The plugin. `root` is the build's absWorkingDir (metafile inputs are relative to it). */
 export function hostMathjsTrim(root) {
   return {
@@ -215,6 +235,7 @@ export function hostMathjsTrim(root) {
         }
       };
       build.onLoad({ filter: PLAIN_NUMBER_FILE }, load(pureSignatures, (n) => { signed += n; }));
+      build.onLoad({ filter: FACTORIES_NUMBER_FILE }, load(pureFactories, () => {}));
       build.onLoad({ filter: NODE_FILE }, load((src, file) => {
         nodeFiles++;
         return trimNodeFile(src, file, NODE_FILE.exec(file)[1]);
