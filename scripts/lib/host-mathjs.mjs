@@ -25,6 +25,9 @@
 // importers calls them before the module has run (no import cycle reaches them). And in
 // factoriesNumber.js the few `export var createX = createNumberFactory(…)` lines that lack mathjs's
 // usual `/* #__PURE__ */` mark get it (gamma, lgamma, combinations: unused, they kept their tables).
+// And utils/bignumber/formatter.js, which formats BigNumber values, is replaced by functions of the
+// same names that throw: the mathjs/number instance has no BigNumber type, so no value reaching
+// mathjs's `format` can be one (the only caller tests isBigNumber first).
 //
 // The build fails, loudly, when
 //   - a mathjs file it trims lacks a method or statement it expects (a mathjs upgrade must not
@@ -40,6 +43,7 @@ import * as acorn from 'acorn';
 const MATHJS_LIB = String.raw`[\\/]mathjs[\\/]lib[\\/](?:esm|cjs)[\\/]`;
 const PLAIN_NUMBER_FILE = new RegExp(`${MATHJS_LIB}plain[\\\\/]number[\\\\/]\\w+\\.js$`);
 const FACTORIES_NUMBER_FILE = new RegExp(`${MATHJS_LIB}factoriesNumber\\.js$`);
+const BIGNUMBER_FORMATTER_FILE = new RegExp(`${MATHJS_LIB}utils[\\\\/]bignumber[\\\\/]formatter\\.js$`);
 const NODE_FILE = new RegExp(`${MATHJS_LIB}expression[\\\\/]node[\\\\/](\\w*Node)\\.js$`);
 const LATEX_TABLES = new RegExp(`${MATHJS_LIB}utils[\\\\/]latex\\.js$|[\\\\/]escape-latex[\\\\/]`);
 
@@ -214,6 +218,18 @@ export function pureFactories(src, file) {
   return { text: splice(src, cuts), trimmed: cuts.length };
 }
 
+/** The exported functions of bignumber/formatter.js, each throwing; `format` must be among them. */
+export function absentBigNumberFormatter(src, file) {
+  const names = [];
+  for (const n of parse(src, file).body) {
+    if (n.type === 'ExportNamedDeclaration' && n.declaration?.type === 'FunctionDeclaration') names.push(n.declaration.id.name);
+    else if (n.type.startsWith('Export')) throw new Error(`an export other than a function declaration in ${file}: update scripts/lib/host-mathjs.mjs`);
+  }
+  if (!names.includes('format')) throw new Error(`no exported function format in ${file}: update scripts/lib/host-mathjs.mjs`);
+  const body = ABSENT('BigNumber formatting', 'its mathjs/number instance has no BigNumber type');
+  return { text: names.map((name) => `export function ${name}() ${body}\n`).join(''), trimmed: names.length };
+}
+
 /** The plugin. `root` is the build's absWorkingDir (metafile inputs are relative to it). */
 export function hostMathjsTrim(root) {
   return {
@@ -236,6 +252,7 @@ export function hostMathjsTrim(root) {
       };
       build.onLoad({ filter: PLAIN_NUMBER_FILE }, load(pureSignatures, (n) => { signed += n; }));
       build.onLoad({ filter: FACTORIES_NUMBER_FILE }, load(pureFactories, () => {}));
+      build.onLoad({ filter: BIGNUMBER_FORMATTER_FILE }, load(absentBigNumberFormatter, () => {}));
       build.onLoad({ filter: NODE_FILE }, load((src, file) => {
         nodeFiles++;
         return trimNodeFile(src, file, NODE_FILE.exec(file)[1]);

@@ -27,6 +27,7 @@ interface HostMathjsModule {
   trimNodeFile(src: string, file: string, className: string): { text: string; trimmed: number };
   pureSignatures(src: string, file: string): { text: string; trimmed: number };
   pureFactories(src: string, file: string): { text: string; trimmed: number };
+  absentBigNumberFormatter(src: string, file: string): { text: string; trimmed: number };
 }
 const loadPlugin = async (): Promise<HostMathjsModule> =>
   (await import(path.join(ROOT, 'scripts', 'lib', 'host-mathjs.mjs'))) as HostMathjsModule;
@@ -103,7 +104,7 @@ describe('extension-host bundles: mathjs trimmed at build time', function () {
     const { mathjsCompactIdentifier } = await loadIdentifier();
     const { math, inputs } = await buildCoreMath([hostMathjsTrim(ROOT), mathjsCompactIdentifier]);
     // The outside reference: the full mathjs package from npm, untrimmed.
-    for (const text of ['sin(x)^2 / (1 + exp(-x))', 'x > 0 ? x : 0.01 * x', 'max(x, 0) != 1', 'a < b <= c']) {
+    for (const text of ['sin(x)^2 / (1 + exp(-x))', 'x > 0 ? x : 0.01 * x', 'max(x, 0) != 1', 'a < b <= c', '1e-21 * x + 123456789012345680000 - 0.1']) {
       assert.equal(math.parse(text).toString(), mathjs.parse(text).toString(), text);
     }
     for (const text of ['2 * x + 3 * x', 'x * x / x ^ 2 + (1 > 0)', '0.5 * exp(y) * 2']) {
@@ -181,6 +182,11 @@ describe('extension-host bundles: mathjs trimmed at build time', function () {
     assert.equal(pureFactories(factories, 'factoriesNumber.js').text,
       "export var createA = /* #__PURE__ */createNumberFactory('a', aNumber);\nexport var createB = /* @__PURE__ */ createNumberFactory('b', bNumber);\n");
     assert.throws(() => pureFactories("export var createA = /* #__PURE__ */factory('a', [], f);\n", 'factoriesNumber.js'), /marked pure already/);
+    const { absentBigNumberFormatter } = await loadPlugin();
+    const stub = absentBigNumberFormatter('import { x } from "y";\nexport function format(v) { return x(v); }\nexport function toFixed(v) { return v; }\n', 'formatter.js');
+    assert.equal(stub.trimmed, 2);
+    assert.match(stub.text, /^export function format\(\) \{ throw new Error\("mathjs BigNumber formatting is not part/);
+    assert.throws(() => absentBigNumberFormatter('export function toFixed(v) { return v; }\n', 'formatter.js'), /no exported function format/);
   });
 
   it('refused node types: the host reads and refuses formulas exactly as before, and their tree methods throw', async () => {
