@@ -148,9 +148,12 @@ export function trimNodeFile(src, file, className) {
 /**
  * Removes function declarations nested in a function (mathjs's factory bodies) whose name no longer
  * occurs anywhere else in the file, repeatedly: helpers only the trimmed methods called, such as
- * FunctionNode's `expandTemplate`. esbuild keeps unused nested declarations. Conservative: any other
- * identifier of the same name, in any scope, keeps the declaration.
+ * FunctionNode's `expandTemplate`; likewise `var access = accessFactory(…)` (and assignFactory), the
+ * evaluation helpers of AccessorNode and AssignmentNode, whose factories only build a closure.
+ * esbuild keeps unused nested declarations. Conservative: any other identifier of the same name, in
+ * any scope, keeps the declaration.
  */
+const PURE_HELPER_FACTORIES = new Set(['accessFactory', 'assignFactory']);
 function dropUnusedLocalFunctions(src, file) {
   let text = src;
   let dropped = 0;
@@ -161,13 +164,18 @@ function dropUnusedLocalFunctions(src, file) {
       if (n.type === 'Identifier') uses.set(n.name, (uses.get(n.name) ?? 0) + 1);
       if (n.type === 'FunctionDeclaration' || n.type === 'FunctionExpression' || n.type === 'ArrowFunctionExpression') {
         const body = n.body.type === 'BlockStatement' ? n.body.body : [];
-        for (const s of body) if (s.type === 'FunctionDeclaration' && s.id) nested.push(s);
+        for (const s of body) {
+          if (s.type === 'FunctionDeclaration' && s.id) nested.push({ node: s, name: s.id.name });
+          const d = s.type === 'VariableDeclaration' && s.declarations.length === 1 ? s.declarations[0] : null;
+          if (d?.id.type === 'Identifier' && d.init?.type === 'CallExpression' && d.init.callee.type === 'Identifier' &&
+            PURE_HELPER_FACTORIES.has(d.init.callee.name)) nested.push({ node: s, name: d.id.name });
+        }
       }
       return undefined;
     });
-    const unused = nested.filter((f) => uses.get(f.id.name) === 1);
+    const unused = nested.filter((f) => uses.get(f.name) === 1);
     if (!unused.length) return { text, dropped };
-    text = splice(text, unused.map((f) => [f.start, f.end, '']));
+    text = splice(text, unused.map((f) => [f.node.start, f.node.end, '']));
     dropped += unused.length;
   }
 }
