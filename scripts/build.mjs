@@ -9,13 +9,16 @@
 //                                 test/integration/**/*.node.test.ts are left out of it (Node-only tests)
 //
 // Flags: --production (minify, no source maps), --watch, --only=name[,name] (extension, web, cli,
-// webview, tests, web-tests). An entry whose source file does not exist fails the build unless
+// webview, tests, web-tests), --metafile=DIR (writes DIR/<target>.meta.json, esbuild's record of what
+// each input contributes: for measuring a bundle, e.g. with https://esbuild.github.io/analyze/). An entry whose source file does not exist fails the build unless
 // SLOPEWISE_ALLOW_MISSING=1, in which case it is skipped with a warning.
 import * as esbuild from 'esbuild';
 import fs from 'node:fs';
 import path from 'node:path';
 import { builtinModules } from 'node:module';
 import { fileURLToPath } from 'node:url';
+import { hostMathjsTrim } from './lib/host-mathjs.mjs';
+import { mathjsCompactIdentifier } from './lib/mathjs-identifier.mjs';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const argv = process.argv.slice(2);
@@ -24,6 +27,8 @@ const watch = argv.includes('--watch');
 const onlyArg = argv.find((a) => a.startsWith('--only='));
 const only = onlyArg ? new Set(onlyArg.slice('--only='.length).split(',')) : null;
 const allowMissing = process.env.SLOPEWISE_ALLOW_MISSING === '1';
+const metafileArg = argv.find((a) => a.startsWith('--metafile='));
+const metafileDir = metafileArg ? path.resolve(metafileArg.slice('--metafile='.length)) : null;
 
 const rel = (p) => path.relative(ROOT, p) || '.';
 const abs = (p) => path.join(ROOT, p);
@@ -132,42 +137,13 @@ function integrationTestEntries() {
 // ---------------------------------------------------------------------------------------------
 // EXTENSION-HOST BUNDLES (out/extension.js, out/web/extension.js): options shared by both.
 //
-// The host never renders LaTeX: `latexForm` (mathjs `toTex`) feeds only inspect's `latex` field,
-// which the CLI prints; the hover and diagnostics use the unicode display forms. mathjs's LaTeX
-// tables (utils/latex.js and escape-latex, ~8.7 kB minified) are therefore replaced in the host
-// bundles by a stand-in that throws a clear error if a toTex ever runs there, and the build fails
-// if host code starts using LaTeX output (then drop this plugin). The CLI bundle keeps the tables.
-const HOST_LATEX_STUB = `const absent = () => { throw new Error('LaTeX output (mathjs toTex) is not part of the extension host bundle; it is a CLI feature'); };
-const table = new Proxy({}, { get: absent, has: absent });
-export const latexSymbols = table;
-export const latexOperators = table;
-export const latexFunctions = table;
-export const defaultTemplate = '';
-export const escapeLatex = absent;
-export const toSymbol = absent;
-`;
-/** Our modules that may mention LaTeX output in the host graph: where it is defined or re-exported. */
-const LATEX_DEFINERS = new Set(['src/core/expr/display.ts', 'src/core/expr/index.ts']);
-const hostWithoutLatex = {
-  name: 'host-without-latex',
-  setup(build) {
-    build.onLoad({ filter: /[\\/]mathjs[\\/]lib[\\/](esm|cjs)[\\/]utils[\\/]latex\.js$/ }, () => ({ contents: HOST_LATEX_STUB, loader: 'js' }));
-    build.onEnd((result) => {
-      if (!result.metafile) return undefined;
-      const errors = [];
-      for (const input of Object.keys(result.metafile.inputs)) {
-        if (!input.startsWith('src/') || LATEX_DEFINERS.has(input)) continue;
-        const text = fs.readFileSync(abs(input), 'utf8');
-        if (/\blatexForm\b|\.toTex\s*\(/.test(text)) {
-          errors.push({ text: `${input} uses LaTeX output (latexForm/toTex), which the extension-host bundles leave out: remove the host-without-latex plugin in scripts/build.mjs` });
-        }
-      }
-      // esbuild does not print errors returned from onEnd: say it here.
-      for (const e of errors) console.error(`✘ [ERROR] ${e.text}`);
-      return { errors };
-    });
-  },
-};
+// The host never renders LaTeX or HTML from mathjs trees and never evaluates them through mathjs (the
+// core compiles checked trees itself): scripts/lib/host-mathjs.mjs trims mathjs's toTex/toHTML and
+// compile/evaluate methods, with the LaTeX tables, and fails the build if host code starts using
+// them. The CLI and the tests keep them.
+// mathjs's deprecated `identifier` type test, expanded by its Babel build into 16.7 kB of UTF-16
+// ranges, goes back to `\p{L}` form, proven equal at build time (scripts/lib/mathjs-identifier.mjs).
+const HOST_PLUGINS = [hostMathjsTrim(ROOT), mathjsCompactIdentifier];
 /** Host bundles are read as UTF-8 (Node's loader, the web worker's script fetch): keep non-ASCII text as is, not as \u escapes. */
 const HOST_OPTIONS = { charset: 'utf8' };
 // ---------------------------------------------------------------------------------------------
@@ -179,14 +155,14 @@ function targets() {
     {
       name: 'extension', source: 'src/extension/main.ts',
       options: { ...common, ...HOST_OPTIONS, entryPoints: [abs('src/extension/main.ts')], outfile: abs('out/extension.js'),
-        platform: 'node', format: 'cjs', target: 'node20', external: ['vscode'], plugins: [hostWithoutLatex] },
+        platform: 'node', format: 'cjs', target: 'node20', external: ['vscode'], plugins: HOST_PLUGINS },
     },
     {
       name: 'web', source: 'src/extension/main.ts',
       options: { ...common, ...HOST_OPTIONS, entryPoints: [abs('src/extension/main.ts')], outfile: abs('out/web/extension.js'),
         platform: 'browser', format: 'cjs', external: ['vscode'], mainFields: ['browser', 'module', 'main'],
         define: { 'process.env.NODE_ENV': production ? '"production"' : '"development"' },
-        plugins: [noNodeBuiltins, hostWithoutLatex] },
+        plugins: [noNodeBuiltins, ...HOST_PLUGINS] },
     },
     {
       name: 'cli', source: 'src/cli/main.ts',
@@ -300,7 +276,13 @@ async function main() {
   const results = await Promise.allSettled(run.map((t) => esbuild.build(t.options)));
   results.forEach((r, i) => {
     const t = run[i];
-    if (r.status === 'fulfilled') printSizes(t.name, r.value.metafile);
+    if (r.status === 'fulfilled') {
+      printSizes(t.name, r.value.metafile);
+      if (metafileDir) {
+        fs.mkdirSync(metafileDir, { recursive: true });
+        fs.writeFileSync(path.join(metafileDir, `${t.name}.meta.json`), JSON.stringify(r.value.metafile));
+      }
+    }
     else {
       failed++;
       console.error(`build: target "${t.name}" FAILED`);

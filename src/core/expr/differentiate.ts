@@ -1,8 +1,8 @@
 /**
- * Symbolic derivative over mathjs nodes, for what mathjs's own `derivative` cannot do: conditionals
- * (branch-wise), max/min (to conditionals), abs, sign, erf, log1p, expm1 and the sigmoid / softplus
- * markers. Every other function is delegated to mathjs `derivative` through the chain rule on a
- * placeholder symbol: d/dx f(u) = f′(t)|_{t=u} · u′.
+ * Symbolic derivative over mathjs nodes: conditionals (branch-wise), max/min (to conditionals), abs,
+ * sign, erf, log1p, expm1 and the sigmoid / softplus markers by their own rules; every other function
+ * through the chain rule on a placeholder symbol, d/dx f(u) = f′(t)|_{t=u} · u′, with f′(t) from
+ * STOCK_DERIVATIVES below.
  *
  * Derivatives of conditionals hold away from the switching points (the kinks), which is what the
  * analysis stage reports separately.
@@ -18,17 +18,47 @@ import {
 } from './nodes';
 
 const PLACEHOLDER = '__t';
+
+/**
+ * f′(t)·t′ for the one-argument functions our own rules below leave out, written as the trees mathjs's
+ * `derivative` builds for f(t) (mathjs 15, function/algebra/derivative.js, with `simplify: false`):
+ * the chain factor t′ = 1 first (−1 where the rule is negative), then × or ÷ the function's part.
+ * Parsing them gives the same trees node for node (checked against mathjs's derivative in
+ * test/unit/expr/differentiate.test.ts), so the core no longer carries mathjs's derivative (7 kB of
+ * the extension-host bundle) for the few rules it used.
+ */
+const STOCK_DERIVATIVES: Readonly<Record<string, string>> = {
+  // d/dx ∛u = u′/(3·u^(2/3));  d/dx √u = u′/(2√u);  d/dx log₁₀ u = u′/(u·ln 10)
+  cbrt: '1 / (3 * __t ^ (2 / 3))', sqrt: '1 / (2 * sqrt(__t))', nthRoot: '1 / (2 * sqrt(__t))', log10: '1 / (__t * log(10))',
+  // d/dx sin u = cos u·u′;  cos′ = −sin;  tan′ = sec²;  sec′ = sec·tan;  csc′ = −csc·cot;  cot′ = −csc²
+  sin: '1 * cos(__t)', cos: '1 * -sin(__t)', tan: '1 * sec(__t) ^ 2', sec: '1 * (sec(__t) * tan(__t))',
+  csc: '-1 * (csc(__t) * cot(__t))', cot: '-1 * csc(__t) ^ 2',
+  // d/dx asin u = u′/√(1 − u²);  acos′ = −1/√(1 − u²);  atan′ = 1/(u² + 1);  asec′ = 1/(|u|√(u² − 1));  acsc′, acot′ negated
+  asin: '1 / sqrt(1 - __t ^ 2)', acos: '-1 / sqrt(1 - __t ^ 2)', atan: '1 / (__t ^ 2 + 1)',
+  asec: '1 / (abs(__t) * sqrt(__t ^ 2 - 1))', acsc: '-1 / (abs(__t) * sqrt(__t ^ 2 - 1))', acot: '-1 / (__t ^ 2 + 1)',
+  // d/dx sinh u = cosh u·u′;  cosh′ = sinh;  sech′ = −sech·tanh;  csch′ = −csch·coth;  coth′ = −csch²
+  sinh: '1 * cosh(__t)', cosh: '1 * sinh(__t)', sech: '-1 * (sech(__t) * tanh(__t))', csch: '-1 * (csch(__t) * coth(__t))',
+  coth: '-1 * csch(__t) ^ 2',
+  // d/dx asinh u = u′/√(u² + 1);  acosh′ = 1/√(u² − 1);  atanh′ = 1/(1 − u²);  asech′ = −1/(u√(1 − u²));
+  // acsch′ = −1/(|u|√(u² + 1));  acoth′ = −1/(1 − u²)
+  asinh: '1 / sqrt(__t ^ 2 + 1)', acosh: '1 / sqrt(__t ^ 2 - 1)', atanh: '1 / (1 - __t ^ 2)',
+  asech: '-1 / (__t * sqrt(1 - __t ^ 2))', acsch: '-1 / (abs(__t) * sqrt(__t ^ 2 + 1))', acoth: '-1 / (1 - __t ^ 2)',
+};
+export const STOCK_DERIVATIVE_NAMES: readonly string[] = Object.keys(STOCK_DERIVATIVES);
+
 const delegated = new Map<string, MathNode>();
 
-/** f′(t) for a stock function f, from mathjs `derivative`, cached per function. */
-function delegatedDerivative(name: string): MathNode {
+/** f′(t) for a stock function f, from STOCK_DERIVATIVES, parsed once per function. */
+export function stockDerivative(name: string): MathNode {
   let d = delegated.get(name);
   if (!d) {
-    try {
-      d = math.derivative(math.parse(`${name}(${PLACEHOLDER})`), PLACEHOLDER, { simplify: false });
-    } catch (e) {
-      throw new SlopewiseError('unknown-function', `No derivative rule for ${name}(): ${(e as Error).message}`);
+    const text = Object.hasOwn(STOCK_DERIVATIVES, name) ? STOCK_DERIVATIVES[name] : undefined;
+    if (text === undefined) {
+      // The words mathjs's derivative used for a function it has no rule for.
+      throw new SlopewiseError('unknown-function', `No derivative rule for ${name}(): Cannot process function "${name}" in derivative: ` +
+        'the function is not supported, undefined, or the number of arguments passed to it are not supported');
     }
+    d = math.parse(text);
     delegated.set(name, d);
   }
   return d;
@@ -168,8 +198,8 @@ export function differentiateMarked(node: MathNode, v: string): MathNode {
       }
       default: {
         if (a.length !== 1) throw new SlopewiseError('unknown-function', `No derivative rule for ${name}() with ${a.length} arguments`);
-        // d/dx f(u) = f′(t)|_{t=u}·u′, f′ from mathjs derivative
-        const outer = substitute(delegatedDerivative(name), new Map([[PLACEHOLDER, u]]));
+        // d/dx f(u) = f′(t)|_{t=u}·u′, f′ from STOCK_DERIVATIVES
+        const outer = substitute(stockDerivative(name), new Map([[PLACEHOLDER, u]]));
         return mul(rebuildTidy(outer), d(u));
       }
     }

@@ -31,7 +31,12 @@ class OutOfTime extends Error {}
 
 const OPTIONS = { exactFractions: false };
 
-/** One mathjs simplify call on a layer of at most MAX_LAYER_NODES nodes; deadline checked before it. */
+/**
+ * One mathjs simplify call on a layer of at most MAX_LAYER_NODES nodes; deadline checked before it.
+ * A layer holds operators, numbers and symbols only (simplifyLayer abstracts every function call):
+ * the extension-host bundles' mathjs instance has no implementations of exp, sin… to fold calls
+ * with (src/core/math.ts, SLOPEWISE_HOST_BUNDLE).
+ */
 function simplifyLayerOnce(n: MathNode, deadline: number): MathNode {
   if (now() > deadline) throw new OutOfTime();
   return math.simplify(n, {}, OPTIONS);

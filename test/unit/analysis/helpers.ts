@@ -2,14 +2,19 @@
  * Builds a Formula and its Derivatives straight from mathjs (parse, and derivative for smooth
  * formulas; the derivative text is given for piecewise ones), so the analysis is tested on its own.
  */
-import { math } from '../../../src/core/math';
+import { create, derivativeDependencies } from 'mathjs/number';
+import type { FactoryFunctionMap } from 'mathjs';
+import { math, mathDependencies } from '../../../src/core/math';
 import type { Derivatives, Formula } from '../../../src/core/types';
+
+/** The core's mathjs instance plus mathjs's own derivative, which the core does not use. */
+const withDerivative = create({ ...mathDependencies, derivativeDependencies } as unknown as FactoryFunctionMap, {});
 
 export function formula(expression: string, opts: { variable?: string; params?: Record<string, number>; derivative?: string; recognised?: string } = {}): { formula: Formula; derivs: Derivatives } {
   const variable = opts.variable ?? 'x';
   const node = math.parse(expression);
-  const firstNode = opts.derivative !== undefined ? math.parse(opts.derivative) : math.derivative(node, variable);
-  const secondNode = opts.derivative !== undefined ? math.parse('0') : math.derivative(firstNode, variable);
+  const firstNode = opts.derivative !== undefined ? math.parse(opts.derivative) : withDerivative.derivative(node, variable);
+  const secondNode = opts.derivative !== undefined ? math.parse('0') : withDerivative.derivative(firstNode, variable);
   const f: Formula = {
     input: expression,
     expression: node.toString(),

@@ -2,7 +2,10 @@
 // given exact rationals; its derivative text is evaluated with the full mathjs package), handbook
 // identities (Abramowitz & Stegun, DLMF), and piecewise rules.
 import * as assert from 'node:assert/strict';
+import * as mathjs from 'mathjs';
+import type { MathNode } from 'mathjs';
 import { derive, differentiate, parseFormula } from '../../../src/core/expr';
+import { STOCK_DERIVATIVE_NAMES, stockDerivative } from '../../../src/core/expr/differentiate';
 import { math } from '../../../src/core/math';
 import { POINTS, assertClose, stockFn } from './support';
 // algebrite ships no types.
@@ -106,3 +109,66 @@ describe('differentiate: piecewise rules', () => {
     }
   });
 });
+
+describe('differentiate: the stock one-argument rules are the trees mathjs derivative builds', () => {
+  // Outside reference: mathjs's own derivative, from the full mathjs package (npm), with
+  // simplify: false: our table must give the same tree node for node, parentheses aside (the
+  // differentiator rebuilds the tree without them), and cover every function it differentiates.
+  type Shown = string;
+  const show = (n: MathNode): Shown => {
+    const a = n as unknown as { value?: unknown; name?: string; fn?: { name?: string } | string; op?: string; args?: MathNode[]; content?: MathNode };
+    switch (n.type) {
+      case 'ParenthesisNode': return show(a.content as MathNode);
+      case 'ConstantNode': return `C(${String(a.value)})`;
+      case 'SymbolNode': return `S(${a.name})`;
+      case 'FunctionNode': return `F(${(a.fn as { name: string }).name}: ${(a.args ?? []).map(show).join(', ')})`;
+      case 'OperatorNode': return `O(${a.op} ${String(a.fn)}: ${(a.args ?? []).map(show).join(', ')})`;
+      default: return n.type;
+    }
+  };
+  const viaMathjs = (name: string): MathNode => mathjs.derivative(mathjs.parse(`${name}(__t)`), '__t', { simplify: false });
+  // Functions the differentiator's own rules handle before the table is consulted.
+  const OWN_RULES = new Set(['sigmoid', 'softplus', 'exp', 'log', 'tanh', 'erf', 'log1p', 'expm1', 'abs', 'sign', 'max', 'min']);
+
+  for (const name of STOCK_DERIVATIVE_NAMES) {
+    it(`${name}′ is mathjs's tree`, () => {
+      assert.equal(show(stockDerivative(name)), show(viaMathjs(name)));
+    });
+  }
+
+  it('every function mathjs differentiates with one argument has a rule, ours or the table', () => {
+    const names = Object.keys(mathjs).filter((k) => typeof (mathjs as unknown as Record<string, unknown>)[k] === 'function' && /^[a-z]\w*$/.test(k));
+    const accepted = names.filter((name) => {
+      try {
+        viaMathjs(name);
+        return true;
+      } catch {
+        return false;
+      }
+    });
+    assert.ok(accepted.length > 20, accepted.join(', '));
+    assert.deepEqual(accepted.filter((n) => !OWN_RULES.has(n) && !STOCK_DERIVATIVE_NAMES.includes(n)), []);
+  });
+
+  it('a function without a rule is refused with mathjs\'s words, as before', () => {
+    assert.throws(() => stockDerivative('gamma'), (e: Error) => {
+      assert.equal(e.message, errorOf(() => viaMathjs('gamma')).replace(/^/, 'No derivative rule for gamma(): '));
+      return true;
+    });
+    assert.throws(() => differentiate(math.parse('gamma(x)'), 'x'), /No derivative rule for gamma\(\)/);
+  });
+
+  it('chain rule through a table rule: d/dx tan(x²) = sec(x²)²·2x (handbook: tan′ = sec²)', () => {
+    const d = stockFn(differentiate(math.parse('tan(x^2)'), 'x').toString(), 'x');
+    for (const x of [-1.1, -0.4, 0.3, 0.9]) assertClose(d(x), 2 * x / Math.cos(x * x) ** 2, 1e-13, `at ${x}`);
+  });
+});
+
+function errorOf(f: () => unknown): string {
+  try {
+    f();
+  } catch (e) {
+    return (e as Error).message;
+  }
+  throw new Error('expected an error');
+}
