@@ -53,19 +53,55 @@ export function withinTolerance(a: number, b: number): boolean {
 }
 
 /**
+ * A function's values and kink flags at a list of points, each computed the first time it is
+ * needed and kept with the function (by identity): a re-check compares an edited function against
+ * unchanged ones, whose profiles are then already known. Functions must be pure (compiled trees are).
+ */
+interface Profile {
+  value: Float64Array;
+  /** 0 not computed, 1 computed (value only), 2 no jump, 3 jump. */
+  state: Uint8Array;
+}
+const profiles = new WeakMap<ScalarFn, WeakMap<readonly number[], Profile>>();
+
+function profileOf(f: ScalarFn, points: readonly number[]): Profile {
+  let byPoints = profiles.get(f);
+  if (!byPoints) { byPoints = new WeakMap(); profiles.set(f, byPoints); }
+  let p = byPoints.get(points);
+  if (!p) { p = { value: new Float64Array(points.length), state: new Uint8Array(points.length) }; byPoints.set(points, p); }
+  return p;
+}
+
+function valueAt(f: ScalarFn, p: Profile, points: readonly number[], i: number): number {
+  if (p.state[i] === 0) { p.value[i] = f(points[i]!); p.state[i] = 1; }
+  return p.value[i]!;
+}
+
+function jumpsAt(f: ScalarFn, p: Profile, points: readonly number[], i: number): boolean {
+  if (p.state[i]! < 2) p.state[i] = jumps(f, points[i]!, valueAt(f, p, points, i)) ? 3 : 2;
+  return p.state[i] === 3;
+}
+
+/** The default sample points, one array for every comparison (profiles are kept per array). */
+const SAMPLES: readonly number[] = Object.freeze(samplePoints());
+
+/**
  * Compare expected and found at the sample points. Points where the expected value is not finite
  * (outside the forward's domain) or either side jumps nearby are skipped.
  */
-export function compareFunctions(expected: ScalarFn, found: ScalarFn, points: readonly number[] = samplePoints()): Comparison | undefined {
+export function compareFunctions(expected: ScalarFn, found: ScalarFn, points: readonly number[] = SAMPLES): Comparison | undefined {
   let worst: Comparison | undefined;
   let n = 0;
   let bad = false;
-  for (const x of points) {
-    const e = expected(x);
+  const pe = profileOf(expected, points);
+  const pf = profileOf(found, points);
+  for (let i = 0; i < points.length; i++) {
+    const x = points[i]!;
+    const e = valueAt(expected, pe, points, i);
     if (!Number.isFinite(e)) continue;
-    if (jumps(expected, x, e)) continue;
-    const f = found(x);
-    if (Number.isFinite(f) && jumps(found, x, f)) continue;
+    if (jumpsAt(expected, pe, points, i)) continue;
+    const f = valueAt(found, pf, points, i);
+    if (Number.isFinite(f) && jumpsAt(found, pf, points, i)) continue;
     n++;
     const err = Number.isFinite(f) ? Math.abs(e - f) : Infinity;
     const okHere = Number.isFinite(f) && withinTolerance(e, f);
