@@ -18,7 +18,7 @@ import { compileScalar } from '../src/core/expr/compile';
 import { clearInspectCache, inspect } from '../src/core/inspect';
 import { buildHoverCard, type HoverInput } from '../src/core/hover';
 import { checkText, clearCheckCaches, createChecker } from '../src/core/check';
-import { analyzeSource } from '../src/core/detect';
+import { analyzeSource, findFormulas } from '../src/core/detect';
 import { LIMITS } from '../src/core/limits';
 import { math } from '../src/core/math';
 import { FLOAT_TYPES } from '../src/core/types';
@@ -229,6 +229,21 @@ function detectAll(files: readonly LangFile[]): number {
   return n;
 }
 
+/** The canonical (stock mathjs) text of every formula a check of the files reads. */
+function canonicalTexts(files: readonly LangFile[]): string[] {
+  const out: string[] = [];
+  for (const f of files) {
+    for (const x of findFormulas(f.text, { languageId: f.languageId, fileName: f.fileName })) {
+      try {
+        out.push(parseFormula(x.text, { language: x.language, ...(x.variable ? { variable: x.variable } : {}), ...(x.params ? { params: x.params } : {}) }).expression);
+      } catch {
+        // findFormulas returns only what the engine reads; nothing to add
+      }
+    }
+  }
+  return out;
+}
+
 function scanAll(files: readonly LangFile[]): number {
   let n = 0;
   for (const f of files) {
@@ -266,6 +281,27 @@ function benchCheck(args: Args): void {
   record('detectionVsCommentScan', 'detection alone ÷ one bare comment pass (informational)', d.ratio, '—', null,
     `detection ${fmt(median(d.a))} ms; ${found} formulas found, the rest of the check (${fmt(Math.max(0, median(p.a) - median(d.a)))} ms) reads, differentiates, compares and float-scans them: ${fmt(Math.max(0, median(p.a) - median(d.a)) / Math.max(1, found))} ms each`,
     { detectionMs: median(d.a), formulasFound: found });
+  // A floor no checker that reads formulas with mathjs can go under: mathjs's parse alone of the
+  // canonical text of every formula the check reads (no notation, no whitelist, no derivative).
+  const canonical = canonicalTexts(files);
+  const m = paired(rounds, () => perCall(() => { for (const t of canonical) consume(math.parse(t).type.length); }, 20), () => perCall(() => consume(scanAll(files)), 20));
+  // Each rule's share: a cold check with only that rule minus one with no rule enabled (detection,
+  // reading every formula, pairing derivatives with forwards and comparing them: the check's
+  // pairs are reported whatever the rules), both ÷ the bare pass.
+  const RULES = ['derivative-mismatch', 'formula-mismatch', 'unstable-form', 'vanishing-pair'] as const;
+  const withRules = (rules: readonly (typeof RULES)[number][]): number => {
+    const t0 = now();
+    clearCheckCaches();
+    for (const f of files) consume(checkText(f.text, { languageId: f.languageId, fileName: f.fileName, rules }).length);
+    return now() - t0;
+  };
+  const base = median(Array.from({ length: rounds }, () => withRules([])));
+  const bare = median(p.b);
+  const shares = RULES.map((r) => [r, Math.max(0, median(Array.from({ length: rounds }, () => withRules([r]))) - base) / bare] as const);
+  record('checkReadingVsCommentScan', 'cold check with no rule enabled (detect, read, pair, compare) ÷ bare pass (informational)', base / bare, '—', null,
+    `each rule on top: ${shares.map(([r, v]) => `${r} ${fmt(v)}`).join(', ')}`, { checkRuleShares: Object.fromEntries(shares) });
+  record('mathjsParseVsCommentScan', 'mathjs parse alone of the formulas read ÷ one bare comment pass (informational: a floor)', m.ratio, '—', null,
+    `${canonical.length} canonical texts parsed in ${fmt(median(m.a))} ms`, { mathjsParseMs: median(m.a) });
 
   // What the editor does after an edit (src/extension/diagnostics.ts): the debounced re-check of the
   // document through that document's checker (createChecker), which has checked the text before the
