@@ -425,9 +425,9 @@ function pairByCallSite(model: SourceModel, d: Read, forwards: Read[]): Read | u
 function derivativesByUse(model: SourceModel, reads: Read[]): Map<Read, Read> {
   const out = new Map<Read, Read>();
   for (const fn of model.code.functions) {
-    const { toks, calls } = bodyCalls(fn);
     const ups = new Set(fn.params.map((p) => p.name).filter((n) => UPSTREAM_NAMES.has(n)));
     if (ups.size === 0) continue;
+    const { toks, calls } = bodyCalls(fn);
     for (const c of calls) {
       const r = reads.find((x) => x.origin === 'code' && x.role === 'activation' && x.code!.fn.name === c.name);
       if (!r || out.has(r)) continue;
