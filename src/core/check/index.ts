@@ -146,7 +146,8 @@ export function checkSource(text: string, opts: CheckOptions = {}): CheckResult 
 
 function checkSourceWith(text: string, opts: CheckOptions): CheckResult {
   const limits = { ...LIMITS, ...opts.limits };
-  const model = analyzeSource(text, { ...opts, memo: active.detect });
+  // Only a document's own checker keeps detection results: one-shot checks (the CLI over a tree) would only fill memory.
+  const model = analyzeSource(text, active === sharedCache ? opts : { ...opts, memo: active.detect });
   const notes = [...model.skipped];
   const started = Date.now();
   const rules = new Set(opts.rules ?? ['derivative-mismatch', 'formula-mismatch', 'unstable-form', 'vanishing-pair']);
