@@ -82,7 +82,17 @@ export const MAX_REWRITES = 6;
 
 const now = (): number => (typeof performance !== 'undefined' ? performance.now() : Date.now());
 
-export function stableRewrites(node: MathNode, dnode: MathNode | null, variable: string, params: Record<string, number>, types: readonly FloatType[], domain: readonly [number, number], known: KnownBreakdowns = {}, deadline = Infinity): Suggestion[] {
+/**
+ * `accept`: asked with a tree's breakdowns before any rewrite is scanned; false skips that tree's
+ * rewrites (a caller that reports only some breakdowns need not scan the rewrites of the others).
+ * `limit`: stop after this many suggestions.
+ */
+export interface RewriteOptions {
+  accept?: (before: Partial<Record<FloatType, BreakdownInterval[]>>, target: 'function' | 'derivative') => boolean;
+  limit?: number;
+}
+
+export function stableRewrites(node: MathNode, dnode: MathNode | null, variable: string, params: Record<string, number>, types: readonly FloatType[], domain: readonly [number, number], known: KnownBreakdowns = {}, deadline = Infinity, options: RewriteOptions = {}): Suggestion[] {
   const out: Suggestion[] = [];
   const targets: Array<['function' | 'derivative', MathNode]> = [['function', node]];
   if (dnode) targets.push(['derivative', dnode]);
@@ -97,6 +107,7 @@ export function stableRewrites(node: MathNode, dnode: MathNode | null, variable:
     for (const type of types) before[type] = known[target]?.[type] ?? breakdownIntervals(exact, compileRounded(tree, variable, params, type), type, domain, refs.get(type));
     // a rewrite helps only by shortening a breakdown: with none in any type, none can
     if (types.every((type) => breakdownMeasure(before[type] ?? []) <= 1e-9)) continue;
+    if (options.accept && !options.accept(before, target)) continue;
     for (const cand of found) {
       if (now() > deadline) break;
       const after: Partial<Record<FloatType, BreakdownInterval[]>> = {};
@@ -117,6 +128,7 @@ export function stableRewrites(node: MathNode, dnode: MathNode | null, variable:
         before,
         after,
       });
+      if (options.limit !== undefined && out.length >= options.limit) return out;
     }
   }
   return out;

@@ -950,18 +950,16 @@ function unstable(r: Read, text: string, language: Language): Finding | undefine
 
 function unstableCore(formula: Formula): UnstableCore | undefined {
   if (!mayHaveStableRewrite(formula.node)) return undefined;
-  let suggestions;
-  try {
-    suggestions = stableRewrites(formula.node, null, formula.variable, formula.parameters, FLOAT_TYPES, [-100, 100]);
-  } catch {
-    return undefined;
-  }
-  if (suggestions.length === 0) return undefined;
   // Only breakdowns that hurt training: ±∞ or NaN in some type, or a wrong value (0 or > 1e-2 relative
   // error) over an interval at least SEVERE_WIDTH long in float32. Tiny subnormal tails are not reported.
   // A lost value matters only where the value itself matters: at least SIGNIFICANT × the function's
   // peak magnitude on [−6, 6] (a gradient of 1e-7 computed to 2 digits does not change training).
-  const exact = compiled(formula.node, formula.variable, formula.parameters);
+  let exact: ScalarFn;
+  try {
+    exact = compiled(formula.node, formula.variable, formula.parameters);
+  } catch {
+    return undefined;
+  }
   let peak = 0;
   for (let x = -6; x <= 6; x += 0.05) { const v = Math.abs(exact(x)); if (Number.isFinite(v)) peak = Math.max(peak, v); }
   const severe = (b: { from: number | null; to: number | null; kind: string }, t: string): boolean => {
@@ -973,7 +971,17 @@ function unstableCore(formula: Formula): UnstableCore | undefined {
     const mid = Math.abs(exact((from + to) / 2));
     return Number.isFinite(mid) && mid >= SIGNIFICANT * peak;
   };
-  const s = suggestions.find((x) => FLOAT_TYPES.some((t) => (x.before[t] ?? []).some((b) => severe(b, t))));
+  const hurts = (before: Partial<Record<string, readonly { from: number | null; to: number | null; kind: string }[]>>): boolean =>
+    FLOAT_TYPES.some((t) => (before[t] ?? []).some((b) => severe(b, t)));
+  // Every suggestion for f shares f's breakdowns (`before`): the finding is the first suggestion when
+  // they hurt, else none — so rewrites are scanned only when they hurt, and only until one helps.
+  let suggestions;
+  try {
+    suggestions = stableRewrites(formula.node, null, formula.variable, formula.parameters, FLOAT_TYPES, [-100, 100], {}, Infinity, { accept: hurts, limit: 1 });
+  } catch {
+    return undefined;
+  }
+  const s = suggestions[0];
   if (!s) return undefined;
   const types = FLOAT_TYPES.filter((t) => (s.before[t] ?? []).some((b) => severe(b, t)));
   const first = types.map((t) => ({ t, b: s.before[t]!.find((b) => severe(b, t))! }))[0];
